@@ -1,0 +1,142 @@
+// Package report holds the figures of one bowline run and renders them as
+// text for people, JSON for machines and HTML with plots.
+package report
+
+// Figures are everything one run of learn, encode or drift reports. JSON
+// field names are stable: scripts depend on them.
+type Figures struct {
+	// Command is the subcommand that produced the figures ("learn", "encode").
+	Command string `json:"command"`
+	// Input names the corpus file(s) read.
+	Input string `json:"input"`
+	// Spec is the fingerprint of the spec used or written.
+	Spec string `json:"spec"`
+	// Mode is "vocabulary" or "hashing".
+	Mode string `json:"mode"`
+	// Docs is the number of records read (one row each).
+	Docs int64 `json:"docs"`
+	// EmptyDocs counts documents that produced no feature at all.
+	EmptyDocs int64 `json:"empty_docs"`
+	// Tokens counts tokens produced by the tokenizer, before stop words.
+	Tokens int64 `json:"tokens"`
+	// StopDropped counts tokens removed as stop words.
+	StopDropped int64 `json:"stop_dropped"`
+	// StopShare is StopDropped / Tokens.
+	StopShare float64 `json:"stop_share"`
+	// TopStopWords lists the most often dropped stop words.
+	TopStopWords []Count `json:"top_stop_words,omitempty"`
+	// Features counts feature keys emitted (word and character n-grams,
+	// every occurrence).
+	Features int64 `json:"features"`
+	// InvalidUTF8 counts invalid bytes replaced by U+FFFD.
+	InvalidUTF8 int64 `json:"invalid_utf8"`
+	// NULs counts NUL bytes found in text (treated as spaces).
+	NULs int64 `json:"nul_bytes"`
+	// OOV is the out-of-vocabulary account (vocabulary mode; nil in hashing
+	// mode and at learn time).
+	OOV *OOV `json:"oov,omitempty"`
+	// Collisions is the collision account (hashing mode only).
+	Collisions *Collisions `json:"collisions,omitempty"`
+	// Sparsity describes the rows written.
+	Sparsity Sparsity `json:"sparsity"`
+	// Vocabulary describes the vocabulary learned (learn only).
+	Vocabulary *VocabFigures `json:"vocabulary,omitempty"`
+	// Labels counts rows per label value as written (empty when unlabeled).
+	Labels []Count `json:"labels,omitempty"`
+	// Throughput is the run's speed.
+	Throughput Throughput `json:"throughput"`
+}
+
+// Count is a name with how often it occurred.
+type Count struct {
+	Name  string `json:"name"`
+	Count int64  `json:"count"`
+}
+
+// OOV is the out-of-vocabulary account of a run: emitted features whose key
+// is not a vocabulary column.
+type OOV struct {
+	// TokenShare is unseen emitted features over all emitted features.
+	TokenShare float64 `json:"token_share"`
+	// TypeShare is distinct unseen keys over distinct keys seen.
+	TypeShare float64 `json:"type_share"`
+	// Features and Unseen count emitted features, all and unseen.
+	Features int64 `json:"features"`
+	Unseen   int64 `json:"unseen"`
+	// Keys and UnseenKeys count distinct keys, all and unseen.
+	Keys       int64 `json:"keys"`
+	UnseenKeys int64 `json:"unseen_keys"`
+	// ByOrder breaks the same figures down per n-gram order ("w1", "w2",
+	// "c3"), in order.
+	ByOrder []OrderOOV `json:"by_order"`
+	// TopUnseen lists the most frequent unseen keys.
+	TopUnseen []Count `json:"top_unseen,omitempty"`
+}
+
+// OrderOOV is the OOV account of one n-gram order.
+type OrderOOV struct {
+	Order      string  `json:"order"`
+	Features   int64   `json:"features"`
+	Unseen     int64   `json:"unseen"`
+	Keys       int64   `json:"keys"`
+	UnseenKeys int64   `json:"unseen_keys"`
+	TokenShare float64 `json:"token_share"`
+	TypeShare  float64 `json:"type_share"`
+}
+
+// Collisions is the hashing account of a run: measured against expected
+// under uniform hashing of Keys distinct keys into Width buckets.
+type Collisions struct {
+	Width uint64 `json:"width"`
+	// Keys is the number of distinct feature keys seen.
+	Keys int64 `json:"keys"`
+	// Occupied is the number of buckets holding at least one key;
+	// ExpectedOccupied is m·(1 − (1 − 1/m)^n).
+	Occupied         int64   `json:"occupied"`
+	ExpectedOccupied float64 `json:"expected_occupied"`
+	// Colliding counts distinct keys whose bucket holds another key; Rate
+	// is Colliding/Keys; ExpectedRate is 1 − (1 − 1/m)^(n−1).
+	Colliding    int64   `json:"colliding"`
+	Rate         float64 `json:"rate"`
+	ExpectedRate float64 `json:"expected_rate"`
+}
+
+// Sparsity describes the rows written.
+type Sparsity struct {
+	Rows    int64   `json:"rows"`
+	Columns int64   `json:"columns"`
+	NNZ     int64   `json:"nnz"`
+	MeanNNZ float64 `json:"mean_nnz_per_row"`
+	MaxNNZ  int64   `json:"max_nnz_per_row"`
+	// Density is NNZ / (Rows × Columns); Sparsity is 1 − Density.
+	Density  float64 `json:"density"`
+	Sparsity float64 `json:"sparsity"`
+	// NNZHistogram[i] counts rows whose non-zero count lies in
+	// [2^i − 1, 2^(i+1) − 1): 0, 1–2, 3–6, 7–14, ...
+	NNZHistogram []int64 `json:"nnz_histogram"`
+}
+
+// VocabFigures describes a learned vocabulary.
+type VocabFigures struct {
+	// Seen is the number of distinct keys counted; Kept the columns kept.
+	Seen int64 `json:"seen"`
+	Kept int64 `json:"kept"`
+	// BelowMinDocs, AboveMaxShare and OverMaxTerms count keys removed by
+	// each cutoff, in that order of application.
+	BelowMinDocs  int64 `json:"below_min_docs"`
+	AboveMaxShare int64 `json:"above_max_doc_share"`
+	OverMaxTerms  int64 `json:"over_max_terms"`
+	// ByOrder is the number of kept columns per n-gram order.
+	ByOrder []Count `json:"by_order"`
+	// TopTerms lists kept keys with the highest document counts.
+	TopTerms []Count `json:"top_terms"`
+}
+
+// Throughput is the speed of a run.
+type Throughput struct {
+	Bytes      int64   `json:"bytes"`
+	Seconds    float64 `json:"seconds"`
+	MBPerSec   float64 `json:"mb_per_sec"`
+	DocsPerSec float64 `json:"docs_per_sec"`
+	Workers    int     `json:"workers"`
+}
