@@ -1,0 +1,148 @@
+// Package atomicfile writes a file under a temporary name in its target
+// folder and renames it into place only when it is complete.
+package atomicfile
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sync"
+)
+
+// File is an output file being written. Nothing appears at Path until Commit
+// succeeds; Abort (or a failed Commit) removes the temporary file.
+type File struct {
+	// Path is the final name of the file.
+	Path string
+	f    *os.File
+	done bool
+}
+
+var (
+	mu   sync.Mutex
+	open = map[*File]struct{}{}
+)
+
+// Create starts writing the file that will appear at path. The temporary
+// file lives in the same folder so the final rename is atomic. The special
+// path "-" is standard output: it is written directly and Commit only
+// flushes.
+func Create(path string) (*File, error) {
+	if path == "-" {
+		return &File{Path: path, f: os.Stdout}, nil
+	}
+	dir, base := filepath.Split(path)
+	if dir == "" {
+		dir = "."
+	}
+	if st, err := os.Stat(path); err == nil && st.IsDir() {
+		return nil, fmt.Errorf("%s: is a directory", path)
+	}
+	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
+	if err != nil {
+		return nil, fmt.Errorf("cannot write %s: %w", path, unwrapPath(err))
+	}
+	a := &File{Path: path, f: f}
+	mu.Lock()
+	open[a] = struct{}{}
+	mu.Unlock()
+	return a, nil
+}
+
+func unwrapPath(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// Write writes to the temporary file.
+func (a *File) Write(p []byte) (int, error) {
+	n, err := a.f.Write(p)
+	if err != nil {
+		return n, fmt.Errorf("writing %s: %w", a.Path, unwrapPath(err))
+	}
+	return n, nil
+}
+
+// Commit syncs and closes the temporary file and renames it to Path.
+func (a *File) Commit() error {
+	if a.done {
+		return nil
+	}
+	a.done = true
+	if a.f == os.Stdout {
+		return nil
+	}
+	forget(a)
+	tmp := a.f.Name()
+	if err := a.f.Sync(); err != nil {
+		a.f.Close()
+		os.Remove(tmp)
+		return fmt.Errorf("writing %s: %w", a.Path, unwrapPath(err))
+	}
+	if err := a.f.Close(); err != nil {
+		os.Remove(tmp)
+		return fmt.Errorf("writing %s: %w", a.Path, unwrapPath(err))
+	}
+	if err := os.Chmod(tmp, 0o644); err != nil {
+		os.Remove(tmp)
+		return err
+	}
+	if err := os.Rename(tmp, a.Path); err != nil {
+		os.Remove(tmp)
+		return fmt.Errorf("cannot write %s: %w", a.Path, unwrapPath(err))
+	}
+	return nil
+}
+
+// Abort removes the temporary file. It is safe to call after Commit, where
+// it does nothing, so `defer f.Abort()` is the usual pattern.
+func (a *File) Abort() {
+	if a.done {
+		return
+	}
+	a.done = true
+	if a.f == os.Stdout {
+		return
+	}
+	forget(a)
+	a.f.Close()
+	os.Remove(a.f.Name())
+}
+
+func forget(a *File) {
+	mu.Lock()
+	delete(open, a)
+	mu.Unlock()
+}
+
+// AbortAll removes the temporary files of every File not yet committed or
+// aborted. A signal handler calls it before the process exits.
+func AbortAll() {
+	mu.Lock()
+	files := make([]*File, 0, len(open))
+	for a := range open {
+		files = append(files, a)
+	}
+	mu.Unlock()
+	for _, a := range files {
+		a.Abort()
+	}
+}
+
+// WriteFile writes the output of fn to path atomically.
+func WriteFile(path string, fn func(w io.Writer) error) error {
+	f, err := Create(path)
+	if err != nil {
+		return err
+	}
+	defer f.Abort()
+	if err := fn(f); err != nil {
+		return err
+	}
+	return f.Commit()
+}
