@@ -1,0 +1,2 @@
+// Package weight turns a document's feature counts into a weighted sparse row: tf, idf and per-row norms.
+package weight
