@@ -1,0 +1,82 @@
+package corpus
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+)
+
+// CSV is read with encoding/csv as RFC 4180 describes it: quoted fields
+// may hold commas, doubled quotes and line breaks; every row must have as
+// many fields as the header; a stray quote is an error. Two properties of
+// encoding/csv show through: a CRLF inside a quoted field is read as LF,
+// and empty lines are skipped (they are not records).
+
+func (r *Reader) nextCSV() error {
+	row, err := r.cr.Read()
+	if err != nil {
+		return r.csvError(err, row)
+	}
+	if r.width == 0 {
+		r.width = len(row)
+		r.cr.FieldsPerRecord = len(row)
+	}
+	line, _ := r.cr.FieldPos(0)
+	r.rec.Line = int64(line)
+	r.scratch = r.scratch[:0]
+	r.offs = r.offs[:0]
+	for _, f := range row {
+		r.scratch = append(r.scratch, f...)
+		r.offs = append(r.offs, len(r.scratch))
+	}
+	r.fields = r.fields[:0]
+	start := 0
+	for _, end := range r.offs {
+		r.fields = append(r.fields, r.scratch[start:end:end])
+		start = end
+	}
+	if r.textCols != nil {
+		r.fill(r.fields)
+	}
+	return nil
+}
+
+// csvError turns an error from encoding/csv into a *ParseError with the
+// file name, and passes read errors through.
+func (r *Reader) csvError(err error, row []string) error {
+	if err == io.EOF {
+		return err
+	}
+	var pe *csv.ParseError
+	if !errors.As(err, &pe) {
+		return err
+	}
+	if pe.Err == csv.ErrFieldCount {
+		// Point at the first surplus field, or at the last field
+		// present when fields are missing.
+		k := r.width
+		if len(row) < r.width {
+			k = len(row) - 1
+		}
+		line, col := r.cr.FieldPos(k)
+		return &ParseError{
+			File:   r.name,
+			Line:   int64(line),
+			Column: r.column(int64(line), col),
+			Err:    fmt.Errorf("%w: found %d, expected %d", ErrFieldCount, len(row), r.width),
+		}
+	}
+	e := pe.Err
+	if e == csv.ErrQuote {
+		if _, perr := r.br.Peek(1); perr == io.EOF {
+			e = fmt.Errorf("%w: a quoted field is still open at the end of the file (the record starts on line %d)", e, pe.StartLine)
+		}
+	}
+	return &ParseError{
+		File:   r.name,
+		Line:   int64(pe.Line),
+		Column: r.column(int64(pe.Line), pe.Column),
+		Err:    e,
+	}
+}

@@ -1,0 +1,510 @@
+package corpus
+
+import (
+	"bufio"
+	"bytes"
+	"compress/gzip"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strconv"
+	"strings"
+)
+
+// Options says how to read a corpus file and which fields to take.
+type Options struct {
+	// Format is the file's layout.
+	Format Format
+	// Text names the text fields, at least one unless Format is Lines.
+	// TSV and CSV fields are header names or 1-based column numbers
+	// ("3"); a header name wins over a column number. JSONL fields are
+	// top-level keys. Lines takes the whole line as its one text field,
+	// so Text must be empty there.
+	Text []string
+	// Label names the optional label field ("" for none).
+	Label string
+	// ID names the optional id field ("" for none).
+	ID string
+	// NoHeader says a TSV or CSV file has no header row: its first row is
+	// data and fields must be column numbers. Other formats ignore it.
+	NoHeader bool
+}
+
+// A Record is one document.
+type Record struct {
+	Line  int64    // 1-based line where the record starts
+	Text  [][]byte // one per Options.Text field, in order (Lines: one)
+	Label []byte   // nil when no label field was asked for
+	ID    []byte   // nil when no id field was asked for
+}
+
+// bufSize is the size of the read buffers. Longer lines are assembled in a
+// growing buffer, so there is no limit on line length.
+const bufSize = 64 << 10
+
+// A Reader reads records from a corpus file. Like [bufio.Scanner], call
+// Scan until it returns false, then check Err.
+type Reader struct {
+	name string
+	opt  Options
+
+	file   *os.File // closed by Close when Open opened it
+	count  countingReader
+	gz     *gzip.Reader
+	br     *bufio.Reader // decompressed text
+	bom    bool          // a UTF-8 BOM was stripped from line 1
+	size   int64
+	line   int64 // lines consumed so far (Lines, TSV, JSONL)
+	header []string
+
+	// TSV and CSV: column index of each wanted field (-1 for none).
+	textCols []int
+	labelCol int
+	idCol    int
+	width    int // expected fields per row; 0 until known
+	cr       *csv.Reader
+
+	// JSONL: spans of wanted values, text fields first, then label, id.
+	spans []span
+
+	rec     Record
+	buf     []byte   // long-line assembly
+	scratch []byte   // decoded field bytes
+	offs    []int    // field end offsets into scratch
+	fields  [][]byte // TSV row split
+	pending bool     // rec holds a row read ahead by NewReader
+	n       int64
+	err     error
+	done    bool
+}
+
+type countingReader struct {
+	r io.Reader
+	n int64
+}
+
+func (c *countingReader) Read(p []byte) (int, error) {
+	n, err := c.r.Read(p)
+	c.n += int64(n)
+	return n, err
+}
+
+// gzipErrors adds the file name to errors from a gzip stream, so that a
+// truncated or corrupt stream is reported, never read as a short file.
+type gzipErrors struct {
+	gz   *gzip.Reader
+	name string
+}
+
+func (g *gzipErrors) Read(p []byte) (int, error) {
+	n, err := g.gz.Read(p)
+	if err != nil && err != io.EOF {
+		if errors.Is(err, io.ErrUnexpectedEOF) {
+			err = fmt.Errorf("%s: truncated gzip stream: %w", g.name, err)
+		} else {
+			err = fmt.Errorf("%s: corrupt gzip stream: %w", g.name, err)
+		}
+	}
+	return n, err
+}
+
+// Open opens the named file ("-" is standard input) and returns a Reader
+// for it. A gzip stream is recognized by its magic bytes 1f 8b, whatever
+// the file's name. See [NewReader] for the checks made before the first
+// record.
+func Open(path string, o Options) (*Reader, error) {
+	var f *os.File
+	name := path
+	if path == "-" {
+		f = os.Stdin
+		name = "standard input"
+	} else {
+		var err error
+		f, err = os.Open(path)
+		if err != nil {
+			return nil, err
+		}
+	}
+	size := int64(-1)
+	st, err := f.Stat()
+	if err == nil {
+		if st.IsDir() {
+			f.Close()
+			return nil, fmt.Errorf("%s: is a directory, not a corpus file", path)
+		}
+		if st.Mode().IsRegular() {
+			size = st.Size()
+		}
+	}
+	r, err := NewReader(f, name, o)
+	if err != nil {
+		if f != os.Stdin {
+			f.Close()
+		}
+		return nil, err
+	}
+	if f != os.Stdin {
+		r.file = f
+	}
+	r.size = size
+	return r, nil
+}
+
+// NewReader returns a Reader that reads r, calling it name in errors.
+// Gzip input is recognized by its magic bytes. NewReader checks the
+// options, reads the header row of TSV and CSV files (or, with NoHeader,
+// the first row, to learn the width) and resolves the fields; an unknown
+// field name is an error naming the field and listing the header.
+// Closing the Reader does not close r.
+func NewReader(r io.Reader, name string, o Options) (*Reader, error) {
+	if err := checkOptions(o); err != nil {
+		return nil, err
+	}
+	rd := &Reader{name: name, opt: o, size: -1, labelCol: -1, idCol: -1}
+	rd.count.r = r
+	src := bufio.NewReaderSize(&rd.count, bufSize)
+	magic, err := src.Peek(2)
+	if err != nil && err != io.EOF {
+		return nil, err
+	}
+	if len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+		gz, err := gzip.NewReader(src)
+		if err != nil {
+			return nil, fmt.Errorf("%s: corrupt gzip stream: %w", name, err)
+		}
+		rd.gz = gz
+		rd.br = bufio.NewReaderSize(&gzipErrors{gz, name}, bufSize)
+	} else {
+		rd.br = src
+	}
+	bom, err := rd.br.Peek(3)
+	if err != nil && err != io.EOF {
+		return nil, err
+	}
+	if bytes.Equal(bom, []byte("\xef\xbb\xbf")) {
+		rd.br.Discard(3)
+		rd.bom = true
+	}
+	switch o.Format {
+	case Lines:
+		rd.rec.Text = make([][]byte, 1)
+	case JSONL:
+		rd.rec.Text = make([][]byte, len(o.Text))
+		rd.spans = make([]span, len(o.Text)+2)
+	case TSV, CSV:
+		rd.rec.Text = make([][]byte, len(o.Text))
+		if err := rd.openTable(); err != nil {
+			return nil, err
+		}
+	}
+	return rd, nil
+}
+
+func checkOptions(o Options) error {
+	if !o.Format.valid() {
+		return fmt.Errorf("unknown format %v", o.Format)
+	}
+	if o.Format == Lines {
+		if len(o.Text) > 0 || o.Label != "" || o.ID != "" {
+			return errors.New("the lines format takes the whole line as the text; it has no text, label or id fields to choose")
+		}
+		return nil
+	}
+	if len(o.Text) == 0 {
+		return fmt.Errorf("no text field given for a %v file (use --text)", o.Format)
+	}
+	for _, t := range o.Text {
+		if t == "" {
+			return errors.New("empty text field name")
+		}
+	}
+	return nil
+}
+
+// openTable reads the header (or the first row) of a TSV or CSV file and
+// resolves the wanted fields to columns.
+func (r *Reader) openTable() error {
+	if r.opt.Format == CSV {
+		r.cr = csv.NewReader(r.br)
+		r.cr.ReuseRecord = true
+	}
+	if !r.opt.NoHeader {
+		h, err := r.readHeader()
+		if err == io.EOF {
+			return fmt.Errorf("%s: empty file, expected a header row", r.name)
+		}
+		if err != nil {
+			return err
+		}
+		r.header = h
+		r.width = len(h)
+		if r.cr != nil {
+			r.cr.FieldsPerRecord = len(h)
+		}
+	} else {
+		// Read the first row ahead to learn the width, so a column
+		// number out of range is reported now.
+		err := r.next()
+		switch {
+		case err == nil:
+			r.pending = true
+		case err == io.EOF:
+			r.done = true
+		default:
+			r.err, r.done = err, true
+		}
+	}
+	var err error
+	for i, t := range r.opt.Text {
+		if r.textCols == nil {
+			r.textCols = make([]int, len(r.opt.Text))
+		}
+		if r.textCols[i], err = r.resolve(t); err != nil {
+			return err
+		}
+	}
+	if r.opt.Label != "" {
+		if r.labelCol, err = r.resolve(r.opt.Label); err != nil {
+			return err
+		}
+	}
+	if r.opt.ID != "" {
+		if r.idCol, err = r.resolve(r.opt.ID); err != nil {
+			return err
+		}
+	}
+	if r.pending {
+		r.fill(r.fields)
+	}
+	return nil
+}
+
+func (r *Reader) readHeader() ([]string, error) {
+	if r.cr != nil {
+		row, err := r.cr.Read()
+		if err != nil {
+			return nil, r.csvError(err, row)
+		}
+		return append([]string(nil), row...), nil
+	}
+	line, err := r.readLine()
+	if err != nil {
+		return nil, err
+	}
+	var h []string
+	for _, f := range splitTab(line, nil) {
+		h = append(h, string(unescapeTSV(f)))
+	}
+	return h, nil
+}
+
+// resolve maps a field name or 1-based column number to a column index.
+func (r *Reader) resolve(name string) (int, error) {
+	found := -1
+	for i, h := range r.header {
+		if h == name {
+			if found >= 0 {
+				return 0, fmt.Errorf("field %q is ambiguous: the header of %s has it in columns %d and %d", name, r.name, found+1, i+1)
+			}
+			found = i
+		}
+	}
+	if found >= 0 {
+		return found, nil
+	}
+	if n, err := strconv.Atoi(name); err == nil && name[0] != '+' && name[0] != '-' {
+		if n < 1 {
+			return 0, fmt.Errorf("field %q: column numbers start at 1", name)
+		}
+		if r.width > 0 && n > r.width {
+			return 0, fmt.Errorf("field %q: column %d is out of range; %s has %d columns", name, n, r.name, r.width)
+		}
+		return n - 1, nil
+	}
+	if r.opt.NoHeader {
+		return 0, fmt.Errorf("field %q: without a header row, fields must be 1-based column numbers", name)
+	}
+	return 0, fmt.Errorf("field %q not found in the header of %s (columns: %s)", name, r.name, listHeader(r.header))
+}
+
+func listHeader(h []string) string {
+	const max = 30
+	var b strings.Builder
+	for i, s := range h {
+		if i == max {
+			fmt.Fprintf(&b, ", … (%d more)", len(h)-max)
+			break
+		}
+		if i > 0 {
+			b.WriteString(", ")
+		}
+		b.WriteString(strconv.Quote(s))
+	}
+	return b.String()
+}
+
+// Scan advances to the next record, which is then available through
+// Record. It returns false at the end of the input or on an error.
+func (r *Reader) Scan() bool {
+	if r.pending {
+		r.pending = false
+		r.n++
+		return true
+	}
+	if r.done {
+		return false
+	}
+	err := r.next()
+	if err != nil {
+		r.done = true
+		if err != io.EOF {
+			r.err = err
+		}
+		return false
+	}
+	r.n++
+	return true
+}
+
+// Record returns the most recent record. It and the bytes it refers to
+// are valid only until the next call to Scan.
+func (r *Reader) Record() *Record { return &r.rec }
+
+// Err returns the first error met, or nil at a clean end of input.
+// Problems in the file's content are [*ParseError] values.
+func (r *Reader) Err() error { return r.err }
+
+// Records returns the number of records returned so far.
+func (r *Reader) Records() int64 { return r.n }
+
+// BytesRead returns the number of bytes consumed from the underlying
+// reader so far, compressed bytes for gzip input, including read-ahead
+// buffering. It suits progress displays together with [Reader.Size].
+func (r *Reader) BytesRead() int64 { return r.count.n }
+
+// Size returns the file's size in bytes when known (a regular file opened
+// with [Open]), else -1.
+func (r *Reader) Size() int64 { return r.size }
+
+// Header returns the header row of a TSV or CSV file, or nil when there is
+// none (NoHeader, Lines, JSONL).
+func (r *Reader) Header() []string { return r.header }
+
+// Close releases the Reader and closes the file opened by [Open]. It does
+// not close standard input or a reader passed to [NewReader].
+func (r *Reader) Close() error {
+	var err error
+	if r.gz != nil {
+		err = r.gz.Close()
+	}
+	if r.file != nil {
+		if cerr := r.file.Close(); err == nil {
+			err = cerr
+		}
+		r.file = nil
+	}
+	r.done = true
+	return err
+}
+
+// next reads one record into r.rec; io.EOF at the end.
+func (r *Reader) next() error {
+	switch r.opt.Format {
+	case Lines:
+		line, err := r.readLine()
+		if err != nil {
+			return err
+		}
+		r.rec.Line = r.line
+		r.rec.Text[0] = line
+		return nil
+	case TSV:
+		return r.nextTSV()
+	case CSV:
+		return r.nextCSV()
+	default:
+		return r.nextJSONL()
+	}
+}
+
+// readLine returns the next line without its "\n" or "\r\n". A lone "\r"
+// stays part of the line. The result is valid until the next read.
+// A read error drops the partial line, so a broken stream is never read as
+// a shorter one.
+func (r *Reader) readLine() ([]byte, error) {
+	var line []byte
+	r.buf = r.buf[:0]
+	for {
+		chunk, err := r.br.ReadSlice('\n')
+		if err == nil {
+			if len(r.buf) > 0 {
+				r.buf = append(r.buf, chunk...)
+				line = r.buf
+			} else {
+				line = chunk
+			}
+			break
+		}
+		if err == bufio.ErrBufferFull {
+			r.buf = append(r.buf, chunk...)
+			continue
+		}
+		if err == io.EOF {
+			if len(r.buf)+len(chunk) == 0 {
+				return nil, io.EOF
+			}
+			r.buf = append(r.buf, chunk...)
+			line = r.buf
+			break
+		}
+		return nil, err
+	}
+	r.line++
+	if n := len(line); n > 0 && line[n-1] == '\n' {
+		line = line[:n-1]
+		if n > 1 && line[n-2] == '\r' {
+			line = line[:n-2]
+		}
+	}
+	return line, nil
+}
+
+// column returns the byte column in the file for a column counted in the
+// text after the BOM was stripped.
+func (r *Reader) column(line int64, col int) int {
+	if col > 0 && line == 1 && r.bom {
+		return col + 3
+	}
+	return col
+}
+
+// fieldName returns the Options name of column col, for error messages.
+func (r *Reader) fieldName(col int) string {
+	for i, c := range r.textCols {
+		if c == col {
+			return r.opt.Text[i]
+		}
+	}
+	switch col {
+	case r.labelCol:
+		return r.opt.Label
+	case r.idCol:
+		return r.opt.ID
+	}
+	return ""
+}
+
+// fill sets r.rec's fields from a table row.
+func (r *Reader) fill(row [][]byte) {
+	for i, c := range r.textCols {
+		r.rec.Text[i] = row[c]
+	}
+	if r.labelCol >= 0 {
+		r.rec.Label = row[r.labelCol]
+	}
+	if r.idCol >= 0 {
+		r.rec.ID = row[r.idCol]
+	}
+}
