@@ -1,0 +1,330 @@
+package report
+
+import (
+	"fmt"
+	"math"
+	"math/bits"
+	"strconv"
+	"strings"
+	"time"
+)
+
+// The text and HTML renderings share one view of the figures: a list of
+// sections, each with label/value pairs and tables. Building it once keeps
+// both renderings showing the same numbers with the same formatting.
+
+// section is one titled block of the report.
+type section struct {
+	Title  string
+	Pairs  []pair
+	Tables []table
+	// Note is a caution shown under the section (HTML only).
+	Note string
+}
+
+// pair is one labelled value.
+type pair struct {
+	Label string
+	Value string
+}
+
+// table is a small grid; Num marks right-aligned (numeric) columns.
+type table struct {
+	Caption string
+	Head    []string
+	Num     []bool
+	Rows    [][]string
+}
+
+// topCount is how many stop words the run section lists inline.
+const topCount = 5
+
+// sections builds the view of f. Sections without content are left out.
+func (f *Figures) sections() []section {
+	var out []section
+	if s := f.runSection(); len(s.Pairs) > 0 {
+		out = append(out, s)
+	}
+	if f.OOV != nil {
+		out = append(out, f.oovSection())
+	}
+	if f.Collisions != nil {
+		out = append(out, f.collisionSection())
+	}
+	if s := f.Sparsity; s.Rows != 0 || s.Columns != 0 || s.NNZ != 0 {
+		out = append(out, f.sparsitySection())
+	}
+	if f.Vocabulary != nil {
+		out = append(out, f.vocabSection())
+	}
+	if len(f.Labels) > 0 {
+		out = append(out, f.labelSection())
+	}
+	if t := f.Throughput; t.Seconds != 0 || t.Bytes != 0 || t.MBPerSec != 0 || t.DocsPerSec != 0 {
+		out = append(out, f.throughputSection())
+	}
+	return out
+}
+
+func (f *Figures) runSection() section {
+	s := section{Title: "run"}
+	add := func(label, value string) {
+		if value != "" {
+			s.Pairs = append(s.Pairs, pair{label, value})
+		}
+	}
+	add("command", f.Command)
+	add("input", f.Input)
+	add("spec", f.Spec)
+	add("mode", f.Mode)
+	if f.Docs == 0 && f.Tokens == 0 && f.Features == 0 && len(s.Pairs) == 0 {
+		return s
+	}
+	add("docs", itoa(f.Docs))
+	add("empty docs", itoa(f.EmptyDocs)+"  "+share(f.EmptyDocs, f.Docs))
+	add("tokens", itoa(f.Tokens))
+	if f.StopDropped != 0 || len(f.TopStopWords) > 0 {
+		v := itoa(f.StopDropped) + "  " + pct(f.StopShare)
+		if len(f.TopStopWords) > 0 {
+			n := min(len(f.TopStopWords), topCount)
+			words := make([]string, n)
+			for i, c := range f.TopStopWords[:n] {
+				words[i] = c.Name + " " + itoa(c.Count)
+			}
+			v += "  top: " + strings.Join(words, ", ")
+		}
+		add("stop words dropped", v)
+	}
+	add("features", itoa(f.Features))
+	if f.InvalidUTF8 != 0 {
+		add("invalid UTF-8", itoa(f.InvalidUTF8)+" bytes replaced by U+FFFD")
+	}
+	if f.NULs != 0 {
+		add("NUL bytes", itoa(f.NULs)+" read as spaces")
+	}
+	return s
+}
+
+func (f *Figures) oovSection() section {
+	o := f.OOV
+	s := section{Title: "out-of-vocabulary"}
+	s.Pairs = []pair{
+		{"token share", pct(o.TokenShare) + "  (" + itoa(o.Unseen) + " of " + itoa(o.Features) + " features)"},
+		{"type share", pct(o.TypeShare) + "  (" + itoa(o.UnseenKeys) + " of " + itoa(o.Keys) + " distinct keys)"},
+	}
+	if len(o.ByOrder) > 0 {
+		t := table{
+			Caption: "per n-gram order",
+			Head:    []string{"order", "features", "unseen", "token share", "keys", "unseen keys", "type share"},
+			Num:     []bool{false, true, true, true, true, true, true},
+		}
+		for _, r := range o.ByOrder {
+			t.Rows = append(t.Rows, []string{r.Order, itoa(r.Features), itoa(r.Unseen), pct(r.TokenShare),
+				itoa(r.Keys), itoa(r.UnseenKeys), pct(r.TypeShare)})
+		}
+		s.Tables = append(s.Tables, t)
+	}
+	if len(o.TopUnseen) > 0 {
+		s.Tables = append(s.Tables, countTable("top unseen keys", "key", o.TopUnseen, 0))
+		s.Note = caution
+	}
+	return s
+}
+
+func (f *Figures) collisionSection() section {
+	c := f.Collisions
+	s := section{Title: "collisions"}
+	rm, re := rates(c.Rate, c.ExpectedRate)
+	s.Pairs = []pair{
+		{"buckets", width(c.Width)},
+		{"distinct keys", itoa(c.Keys)},
+		{"collision rate", rm + "  expected " + re},
+		{"colliding keys", itoa(c.Colliding)},
+		{"occupied buckets", itoa(c.Occupied) + "  expected " + strconv.FormatFloat(c.ExpectedOccupied, 'f', 1, 64)},
+	}
+	return s
+}
+
+func (f *Figures) sparsitySection() section {
+	p := f.Sparsity
+	s := section{Title: "sparsity"}
+	s.Pairs = []pair{
+		{"rows x columns", itoa(p.Rows) + " x " + itoa(p.Columns)},
+		{"non-zeros", itoa(p.NNZ)},
+		{"per row", "mean " + strconv.FormatFloat(p.MeanNNZ, 'f', 1, 64) + "  max " + itoa(p.MaxNNZ)},
+		{"density", sig(p.Density)},
+		{"sparsity", pctNearOne(p.Sparsity)},
+	}
+	if len(p.NNZHistogram) > 0 {
+		t := table{
+			Caption: "rows by non-zeros",
+			Head:    []string{"non-zeros", "rows", "share"},
+			Num:     []bool{false, true, true},
+		}
+		for i, n := range p.NNZHistogram {
+			t.Rows = append(t.Rows, []string{binLabel(i), itoa(n), share(n, p.Rows)})
+		}
+		s.Tables = append(s.Tables, t)
+	}
+	return s
+}
+
+func (f *Figures) vocabSection() section {
+	v := f.Vocabulary
+	s := section{Title: "vocabulary"}
+	s.Pairs = []pair{
+		{"keys seen", itoa(v.Seen)},
+		{"kept", itoa(v.Kept) + "  " + share(v.Kept, v.Seen)},
+		{"cut by --min-docs", itoa(v.BelowMinDocs)},
+		{"cut by --max-doc-share", itoa(v.AboveMaxShare)},
+		{"cut by --max-terms", itoa(v.OverMaxTerms)},
+	}
+	if len(v.ByOrder) > 0 {
+		t := table{Caption: "kept per n-gram order", Head: []string{"order", "kept", "share"}, Num: []bool{false, true, true}}
+		for _, c := range v.ByOrder {
+			t.Rows = append(t.Rows, []string{c.Name, itoa(c.Count), share(c.Count, v.Kept)})
+		}
+		s.Tables = append(s.Tables, t)
+	}
+	if len(v.TopTerms) > 0 {
+		s.Tables = append(s.Tables, countTable("top terms by document count", "term", v.TopTerms, 0))
+		s.Note = caution
+	}
+	return s
+}
+
+func (f *Figures) labelSection() section {
+	var total int64
+	for _, c := range f.Labels {
+		total += c.Count
+	}
+	return section{Title: "labels", Tables: []table{countTable("", "label", f.Labels, total)}}
+}
+
+func (f *Figures) throughputSection() section {
+	t := f.Throughput
+	s := section{Title: "throughput"}
+	s.Pairs = []pair{
+		{"speed", strconv.FormatFloat(t.MBPerSec, 'f', 2, 64) + " MB/s  " + strconv.FormatFloat(t.DocsPerSec, 'f', 0, 64) + " docs/s"},
+		{"read", itoa(t.Bytes) + " bytes"},
+		{"elapsed", elapsed(t.Seconds)},
+	}
+	if t.Workers > 0 {
+		s.Pairs = append(s.Pairs, pair{"workers", strconv.Itoa(t.Workers)})
+	}
+	return s
+}
+
+// countTable lists names with counts; with total > 0 it adds a share column.
+func countTable(caption, name string, cs []Count, total int64) table {
+	t := table{Caption: caption, Head: []string{name, "count"}, Num: []bool{false, true}}
+	if total > 0 {
+		t.Head = append(t.Head, "share")
+		t.Num = append(t.Num, true)
+	}
+	for _, c := range cs {
+		row := []string{c.Name, itoa(c.Count)}
+		if total > 0 {
+			row = append(row, share(c.Count, total))
+		}
+		t.Rows = append(t.Rows, row)
+	}
+	return t
+}
+
+// caution is shown wherever strings from the corpus appear in the report.
+const caution = "Caution: a vocabulary memorizes strings from the training text. " +
+	"Specs, feature maps and reports made from tickets or reviews can carry personal data " +
+	"(e-mail addresses, names, phone and order numbers) and must be handled like the text itself. " +
+	"--min-docs 2 or more drops most one-off strings; hashing mode stores no strings at all."
+
+func itoa(n int64) string { return strconv.FormatInt(n, 10) }
+
+// share formats part/whole as a percentage; an empty whole gives "".
+func share(part, whole int64) string {
+	if whole == 0 {
+		return ""
+	}
+	return pct(float64(part) / float64(whole))
+}
+
+// pct formats a fraction as a percentage with precision that suits its size:
+// one decimal from 10%, two from 0.1%, three significant digits below.
+func pct(x float64) string {
+	v := x * 100
+	switch {
+	case math.IsNaN(v) || math.IsInf(v, 0):
+		return "n/a"
+	case v == 0:
+		return "0%"
+	case v == 100:
+		return "100%"
+	case v >= 10:
+		return strconv.FormatFloat(v, 'f', 1, 64) + "%"
+	case v >= 0.1:
+		return strconv.FormatFloat(v, 'f', 2, 64) + "%"
+	default:
+		return strconv.FormatFloat(v, 'g', 3, 64) + "%"
+	}
+}
+
+// pctNearOne formats a fraction close to 1 (a sparsity) with enough
+// decimals that it does not round to 100% unless it is 1.
+func pctNearOne(x float64) string {
+	if x >= 1 || x < 0.99 {
+		return pct(x)
+	}
+	gap := (1 - x) * 100
+	d := int(math.Ceil(-math.Log10(gap))) + 1
+	d = max(2, min(d, 12))
+	return strconv.FormatFloat(x*100, 'f', d, 64) + "%"
+}
+
+// sig formats a figure with four significant digits.
+func sig(x float64) string {
+	return strconv.FormatFloat(x, 'g', 4, 64)
+}
+
+// rates formats a measured and an expected rate the same way so they can be
+// read side by side: four decimals, or scientific notation when both are
+// below 0.001.
+func rates(a, b float64) (string, string) {
+	if max(a, b) >= 0.001 || (a == 0 && b == 0) {
+		return strconv.FormatFloat(a, 'f', 4, 64), strconv.FormatFloat(b, 'f', 4, 64)
+	}
+	return strconv.FormatFloat(a, 'e', 3, 64), strconv.FormatFloat(b, 'e', 3, 64)
+}
+
+// width formats a bucket count, naming the power of two when it is one.
+func width(m uint64) string {
+	s := strconv.FormatUint(m, 10)
+	if m > 1 && m&(m-1) == 0 {
+		s += " (2^" + strconv.Itoa(63-bits.LeadingZeros64(m)) + ")"
+	}
+	return s
+}
+
+// binLabel names histogram bin i, which holds non-zero counts in
+// [2^i − 1, 2^(i+1) − 1).
+func binLabel(i int) string {
+	lo := int64(1)<<i - 1
+	hi := int64(1)<<(i+1) - 2
+	if lo == hi {
+		return itoa(lo)
+	}
+	return fmt.Sprintf("%d–%d", lo, hi)
+}
+
+// elapsed formats seconds as a duration rounded to what a person reads.
+func elapsed(sec float64) string {
+	d := time.Duration(sec * float64(time.Second))
+	switch {
+	case d >= time.Minute:
+		d = d.Round(time.Second)
+	case d >= time.Second:
+		d = d.Round(time.Millisecond)
+	default:
+		d = d.Round(time.Microsecond)
+	}
+	return d.String()
+}
