@@ -1,0 +1,142 @@
+package ngram
+
+import (
+	"strconv"
+	"unicode/utf8"
+)
+
+// Kind tells word n-grams from character n-grams.
+type Kind uint8
+
+// The kinds of n-gram.
+const (
+	Word Kind = iota // tokens joined by one space
+	Char             // characters inside one boundary-marked token
+)
+
+// String returns "word" or "char".
+func (k Kind) String() string {
+	switch k {
+	case Word:
+		return "word"
+	case Char:
+		return "char"
+	}
+	return "Kind(" + strconv.Itoa(int(k)) + ")"
+}
+
+// CharPrefix starts every character n-gram key (after the caller's prefix).
+// Tokens never contain '#', so a word key and a character key made of the
+// same letters always differ.
+const CharPrefix = '#'
+
+// BoundaryStart and BoundaryEnd mark the start and end of each token before
+// its character n-grams are taken, so that "<ca" (a word start) differs
+// from "ca" inside a word.
+const BoundaryStart, BoundaryEnd = '<', '>'
+
+// OrderLabel names an n-gram order in reports: "w1", "w2", "c3", ...
+func OrderLabel(kind Kind, order int) string {
+	if kind == Char {
+		return "c" + strconv.Itoa(order)
+	}
+	return "w" + strconv.Itoa(order)
+}
+
+// A Builder forms the n-gram keys of documents. It keeps scratch space
+// between calls, so it is not safe for concurrent use: use one per
+// goroutine.
+type Builder struct {
+	c      Config
+	key    []byte // the key being built
+	marked []byte // BoundaryStart + token + BoundaryEnd
+	starts []int  // byte offset of each rune in marked, plus len(marked)
+}
+
+// NewBuilder returns a Builder for c. It panics if c.Validate fails;
+// validate configurations from users first.
+func NewBuilder(c Config) *Builder {
+	if err := c.Validate(); err != nil {
+		panic(err)
+	}
+	return &Builder{c: c}
+}
+
+// Emit calls fn for every feature key of one document, given the
+// document's kept tokens in order. prefix (may be empty) is prepended to
+// every key, for field prefixes such as "title|". key is valid only during
+// the call to fn; fn must copy it to keep it. In steady state Emit does not
+// allocate.
+//
+// The keys come in this order:
+//
+//  1. Word n-grams, for n = Words.Min through Words.Max, left to right: the
+//     n tokens joined by one ASCII space. A document with fewer than n
+//     tokens has no n-grams of order n.
+//  2. Character n-grams, token by token: for each token, the marked token
+//     BoundaryStart+token+BoundaryEnd of K characters (runes) gives, for
+//     n = Chars.Min through Chars.Max, its K-n+1 substrings of n characters,
+//     left to right, each key being CharPrefix followed by the substring.
+//     When n > K, the whole marked token is emitted once in place of the
+//     n-grams: with order Chars.Min if K < Chars.Min, and not again for
+//     larger n when it was already emitted as the K-gram.
+//
+// order is n (the number of tokens or characters), kind is Word or Char.
+// Tokens are expected to be valid UTF-8; an invalid byte counts as one
+// character.
+func (b *Builder) Emit(prefix []byte, tokens [][]byte, fn func(key []byte, kind Kind, order int)) {
+	if w := b.c.Words; w.On() {
+		for n := w.Min; n <= w.Max && n <= len(tokens); n++ {
+			for i := 0; i+n <= len(tokens); i++ {
+				k := append(b.key[:0], prefix...)
+				k = append(k, tokens[i]...)
+				for _, t := range tokens[i+1 : i+n] {
+					k = append(k, ' ')
+					k = append(k, t...)
+				}
+				b.key = k
+				fn(k, Word, n)
+			}
+		}
+	}
+	if c := b.c.Chars; c.On() {
+		for _, tok := range tokens {
+			b.mark(tok)
+			K := len(b.starts) - 1
+			for n := c.Min; n <= c.Max; n++ {
+				if n > K {
+					if n == c.Min {
+						b.emitChar(prefix, b.marked, n, fn)
+					}
+					break
+				}
+				for i := 0; i+n <= K; i++ {
+					b.emitChar(prefix, b.marked[b.starts[i]:b.starts[i+n]], n, fn)
+				}
+			}
+		}
+	}
+}
+
+// mark fills b.marked with the boundary-marked token and b.starts with its
+// rune offsets.
+func (b *Builder) mark(tok []byte) {
+	m := append(b.marked[:0], BoundaryStart)
+	m = append(m, tok...)
+	m = append(m, BoundaryEnd)
+	s := b.starts[:0]
+	for i := 0; i < len(m); {
+		s = append(s, i)
+		_, size := utf8.DecodeRune(m[i:])
+		i += size
+	}
+	b.marked, b.starts = m, append(s, len(m))
+}
+
+func (b *Builder) emitChar(prefix, gram []byte, order int, fn func([]byte, Kind, int)) {
+	k := append(b.key[:0], prefix...)
+	k = append(k, CharPrefix)
+	k = append(k, gram...)
+	b.key = k
+	fn(k, Char, order)
+}
