@@ -68,10 +68,10 @@ func (r *Reader) csvError(err error, row []string) error {
 		}
 	}
 	e := pe.Err
-	if e == csv.ErrQuote {
-		if _, perr := r.br.Peek(1); perr == io.EOF {
-			e = fmt.Errorf("%w: a quoted field is still open at the end of the file (the record starts on line %d)", e, pe.StartLine)
-		}
+	if pe.StartLine != pe.Line {
+		// An unbalanced quote runs on to the end of the input; say
+		// where the record began.
+		e = fmt.Errorf("%w (in the record that starts on line %d)", e, pe.StartLine)
 	}
 	return &ParseError{
 		File:   r.name,
