@@ -14,7 +14,7 @@ type Row struct {
 
 // Accumulator sums (column, value) pairs for one document and finishes
 // them into a Row. It is reusable and not safe for concurrent use: keep
-// one per goroutine. Once its internal tables have grown to the largest
+// one per goroutine. The zero value is ready to use. Once its internal tables have grown to the largest
 // document seen, Add and Finish do not allocate.
 //
 // Repeated columns are summed in an open-addressing table keyed by column,

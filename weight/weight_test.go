@@ -276,7 +276,7 @@ func TestSignedSums(t *testing.T) {
 }
 
 func TestResetAndEmpty(t *testing.T) {
-	a := NewAccumulator()
+	a := &Accumulator{} // zero value
 	row := Row{Indices: []int{9}, Values: []float64{9}}
 	a.Finish(TFCount, nil, NormL2, &row)
 	if len(row.Indices) != 0 || len(row.Values) != 0 {
