@@ -1,0 +1,2 @@
+// Package svmlight writes and reads sparse rows in the SVMlight text format and bowline's feature-map files.
+package svmlight

@@ -1,0 +1,119 @@
+package svmlight
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+)
+
+// A Writer writes rows in the SVMlight text format, one line per row:
+//
+//	label index:value index:value ...
+//
+// optionally followed by " # id". Indices are written strictly ascending,
+// shifted by the index base; labels and values are written in the shortest
+// form that reads back to the same float64 (strconv's 'g' format with
+// precision -1, for example 1, -0.5, 1e-300, 1e+21). Plain rows, without
+// ids, are what liblinear's readers accept.
+//
+// Writes are buffered: call Flush when done, and check its error.
+type Writer struct {
+	bw      *bufio.Writer
+	base    int
+	withIDs bool
+	buf     []byte
+	rows    int64
+}
+
+// NewWriter returns a Writer that writes to w. base is the number written
+// for column 0: 1 (the usual SVMlight and liblinear convention) or 0; any
+// other value panics. When withIDs is true each row ends with " # " and the
+// row's id (see WriteRow).
+func NewWriter(w io.Writer, base int, withIDs bool) *Writer {
+	checkBase(base)
+	return &Writer{bw: bufio.NewWriterSize(w, 64<<10), base: base, withIDs: withIDs, buf: make([]byte, 0, 1024)}
+}
+
+func checkBase(base int) {
+	if base != 0 && base != 1 {
+		panic("svmlight: index base must be 0 or 1, not " + strconv.Itoa(base))
+	}
+}
+
+// WriteRow writes one row. indices are 0-based column numbers and must be
+// strictly ascending and non-negative; values holds the value of each index
+// and must have the same length. Every given pair is written, zeros included:
+// removing zeros is the caller's choice. The label and every value must be
+// finite. An invalid row is reported as an error and nothing of it is
+// written.
+//
+// When the Writer was made with withIDs, " # " and id follow the pairs (just
+// " #" when id is empty). In id, backslash, tab, newline and carriage return
+// are written as \\, \t, \n and \r, and every other ASCII control character
+// as \xHH, so that the id stays on its line; Reader undoes this.
+//
+// WriteRow does not allocate once its internal buffer has grown to the
+// longest row.
+func (w *Writer) WriteRow(label float64, indices []int, values []float64, id string) error {
+	if len(indices) != len(values) {
+		return fmt.Errorf("svmlight: row %d: %d indices but %d values", w.rows+1, len(indices), len(values))
+	}
+	if math.IsNaN(label) || math.IsInf(label, 0) {
+		return fmt.Errorf("svmlight: row %d: label %v is not finite", w.rows+1, label)
+	}
+	prev := -1
+	for i, ix := range indices {
+		if ix <= prev {
+			if ix < 0 {
+				return fmt.Errorf("svmlight: row %d: index %d is negative", w.rows+1, ix)
+			}
+			return fmt.Errorf("svmlight: row %d: index %d follows %d; indices must be strictly ascending", w.rows+1, ix, prev)
+		}
+		prev = ix
+		if v := values[i]; math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("svmlight: row %d: value %v of index %d is not finite", w.rows+1, v, ix)
+		}
+	}
+	b := AppendRow(w.buf[:0], label, indices, values, w.base)
+	if w.withIDs {
+		b = append(b, " #"...)
+		if id != "" {
+			b = append(b, ' ')
+			b = appendEscaped(b, id, true)
+		}
+	}
+	b = append(b, '\n')
+	w.buf = b
+	if _, err := w.bw.Write(b); err != nil {
+		return err
+	}
+	w.rows++
+	return nil
+}
+
+// Flush writes any buffered rows to the underlying io.Writer.
+func (w *Writer) Flush() error {
+	return w.bw.Flush()
+}
+
+// Rows returns the number of rows written so far by WriteRow.
+func (w *Writer) Rows() int64 {
+	return w.rows
+}
+
+// AppendRow appends the SVMlight form of one row to dst, without a trailing
+// newline, and returns the extended buffer: the label, then " index:value"
+// for each pair with index+base as the number. It does not check its input;
+// WriteRow does.
+func AppendRow(dst []byte, label float64, indices []int, values []float64, base int) []byte {
+	dst = strconv.AppendFloat(dst, label, 'g', -1, 64)
+	for i, ix := range indices {
+		dst = append(dst, ' ')
+		dst = strconv.AppendInt(dst, int64(ix+base), 10)
+		dst = append(dst, ':')
+		dst = strconv.AppendFloat(dst, values[i], 'g', -1, 64)
+	}
+	return dst
+}
