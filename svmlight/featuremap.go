@@ -110,4 +110,3 @@ func ReadFeatureMap(r io.Reader, name string, base int) ([]MapEntry, error) {
 		entries = append(entries, MapEntry{Index: ix - base, Feature: feat, Docs: int64(docs)})
 	}
 }
-
