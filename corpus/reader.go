@@ -101,13 +101,16 @@ type gzipErrors struct {
 func (g *gzipErrors) Read(p []byte) (int, error) {
 	n, err := g.gz.Read(p)
 	if err != nil && err != io.EOF {
-		if errors.Is(err, io.ErrUnexpectedEOF) {
-			err = fmt.Errorf("%s: truncated gzip stream: %w", g.name, err)
-		} else {
-			err = fmt.Errorf("%s: corrupt gzip stream: %w", g.name, err)
-		}
+		err = gzipError(g.name, err)
 	}
 	return n, err
+}
+
+func gzipError(name string, err error) error {
+	if errors.Is(err, io.ErrUnexpectedEOF) {
+		return fmt.Errorf("%s: truncated gzip stream: %w", name, err)
+	}
+	return fmt.Errorf("%s: corrupt gzip stream: %w", name, err)
 }
 
 // Open opens the named file ("-" is standard input) and returns a Reader
@@ -172,7 +175,7 @@ func NewReader(r io.Reader, name string, o Options) (*Reader, error) {
 	if len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
 		gz, err := gzip.NewReader(src)
 		if err != nil {
-			return nil, fmt.Errorf("%s: corrupt gzip stream: %w", name, err)
+			return nil, gzipError(name, err)
 		}
 		rd.gz = gz
 		rd.br = bufio.NewReaderSize(&gzipErrors{gz, name}, bufSize)
