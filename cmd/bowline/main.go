@@ -1,0 +1,142 @@
+// Command bowline turns free text into sparse feature rows for linear
+// learners and keeps the transformation frozen between training and serving.
+//
+// Run "bowline help" for the commands and "bowline CMD --help" for flags.
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"runtime/debug"
+	"syscall"
+
+	"github.com/bowline/bowline/atomicfile"
+	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/pipeline"
+	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/stopwords"
+)
+
+// Exit codes.
+const (
+	exitOK      = 0
+	exitFailure = 1 // anything not listed below
+	exitUsage   = 2 // bad command line: unknown flag, impossible value
+	exitData    = 3 // bad input data: a record that cannot be read or mapped
+	exitIO      = 4 // a file that cannot be read or written
+	exitSpec    = 5 // a spec that is refused (truncated, tampered, newer)
+)
+
+type commandFunc func(args []string, stdout, stderr io.Writer) error
+
+type commandEntry struct {
+	name  string
+	about string
+	run   commandFunc
+}
+
+var commands []commandEntry
+
+func init() {
+	commands = []commandEntry{
+		{"learn", "read a training corpus, count, apply cutoffs, write a spec", runLearn},
+		{"encode", "apply a spec to a corpus: SVMlight rows and the run's figures", runEncode},
+		{"inspect", "show a spec: fingerprint, settings, size, top terms", runInspect},
+		{"demo", "run the whole job on the invented Pellwick Bike Share corpus", runDemo},
+		{"version", "print version and build information", runVersion},
+	}
+}
+
+func main() {
+	sigs := make(chan os.Signal, 1)
+	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
+	go func() {
+		s := <-sigs
+		atomicfile.AbortAll()
+		fmt.Fprintf(os.Stderr, "bowline: stopped by %v; no partial output left\n", s)
+		os.Exit(130)
+	}()
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+func run(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+		topUsage(stdout)
+		return exitOK
+	}
+	for _, c := range commands {
+		if c.name == args[0] {
+			err := c.run(args[1:], stdout, stderr)
+			return exitCode(err, stderr)
+		}
+	}
+	fmt.Fprintf(stderr, "bowline: unknown command %q (run bowline help)\n", args[0])
+	return exitUsage
+}
+
+func topUsage(w io.Writer) {
+	fmt.Fprintln(w, "bowline turns free text into sparse feature rows for linear learners.")
+	fmt.Fprintln(w, "\nusage: bowline COMMAND [flags] [files]\n\ncommands:")
+	for _, c := range commands {
+		fmt.Fprintf(w, "  %-8s %s\n", c.name, c.about)
+	}
+	fmt.Fprintln(w, "\nbowline COMMAND --help lists the command's flags with their defaults.")
+}
+
+// exitCode prints err and returns the exit code it deserves.
+func exitCode(err error, stderr io.Writer) int {
+	if err == nil || errors.Is(err, flag.ErrHelp) {
+		return exitOK
+	}
+	if errors.Is(err, syscall.EPIPE) {
+		return exitOK // a closed stdout pipe ends quietly
+	}
+	fmt.Fprintf(stderr, "bowline: %v\n", err)
+	var u *usageError
+	var pe *corpus.ParseError
+	var re *pipeline.RecordError
+	var le *spec.LoadError
+	var se *stopwords.ParseError
+	var pathErr *os.PathError
+	switch {
+	case errors.As(err, &u):
+		return exitUsage
+	case errors.As(err, &le):
+		if le.Reason == "unreadable" {
+			return exitIO
+		}
+		return exitSpec
+	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se):
+		return exitData
+	case errors.As(err, &pathErr), errors.As(err, new(*ioError)):
+		return exitIO
+	}
+	return exitFailure
+}
+
+// ioError marks an input/output failure (exit code 4).
+type ioError struct{ err error }
+
+func (e *ioError) Error() string { return e.err.Error() }
+func (e *ioError) Unwrap() error { return e.err }
+
+func runVersion(args []string, stdout, stderr io.Writer) error {
+	c := newCommand("version", "", "print version and build information")
+	if err := c.parse(args); err != nil {
+		return err
+	}
+	fmt.Fprintf(stdout, "bowline %s (spec schema %d)\n", spec.ToolVersion, spec.SchemaVersion)
+	if bi, ok := debug.ReadBuildInfo(); ok {
+		fmt.Fprintf(stdout, "go %s\n", bi.GoVersion)
+		for _, s := range bi.Settings {
+			if s.Key == "vcs.revision" || s.Key == "vcs.time" || s.Key == "vcs.modified" {
+				fmt.Fprintf(stdout, "%s %s\n", s.Key, s.Value)
+			}
+		}
+	}
+	return nil
+}

@@ -1,0 +1,391 @@
+package pipeline
+
+import (
+	"errors"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+	"sync"
+	"time"
+
+	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/report"
+	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/svmlight"
+	"github.com/bowline/bowline/weight"
+)
+
+// EncodeOptions control an encode run.
+type EncodeOptions struct {
+	// Workers is the number of encoding goroutines (0 = all cores).
+	Workers int
+	// Base is the first column index written (1 or 0).
+	Base int
+	// WithIDs appends "# id" to every row.
+	WithIDs bool
+	// LabelFallback, when not nil, is the label of rows whose label the
+	// spec cannot map.
+	LabelFallback *float64
+	// Name is the corpus name used in figures and errors.
+	Name string
+	// Progress, when not nil, is called from the reading goroutine with
+	// the bytes read so far.
+	Progress func(bytesRead int64)
+	// TopUnseen is how many unseen keys the figures list.
+	TopUnseen int
+}
+
+// Encode applies enc to every record of r and writes one SVMlight row per
+// record, in input order, to out. Rows are byte-identical whatever the
+// worker count.
+func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions) (*report.Figures, error) {
+	start := time.Now()
+	nw := workerCount(o.Workers)
+	if o.Base != 0 && o.Base != 1 {
+		o.Base = 1
+	}
+	free := make(chan *batch, nw*3)
+	for i := 0; i < nw*3; i++ {
+		free <- &batch{}
+	}
+	work := make(chan *batch, nw)
+	done := make(chan *batch, nw*3)
+	stop := make(chan struct{})
+	var stopOnce sync.Once
+	halt := func() { stopOnce.Do(func() { close(stop) }) }
+
+	nfield := len(enc.Spec().Content.Input.Text)
+	var readErr error
+	var readBytes int64
+	readerDone := make(chan struct{})
+	go func() {
+		defer close(readerDone)
+		readErr = readBatches(r, nfield, free, work, stop, func(*corpus.Record) error {
+			if o.Progress != nil {
+				o.Progress(r.BytesRead())
+			}
+			return nil
+		})
+		readBytes = r.BytesRead()
+	}()
+
+	workers := make([]*spec.Worker, nw)
+	var wg sync.WaitGroup
+	for i := 0; i < nw; i++ {
+		workers[i] = enc.NewWorker(true)
+		wg.Add(1)
+		go func(w *spec.Worker) {
+			defer wg.Done()
+			var row weight.Row
+			for b := range work {
+				encodeBatch(w, enc, b, &row, o)
+				select {
+				case done <- b:
+				case <-stop:
+					return
+				}
+			}
+		}(workers[i])
+	}
+	go func() { wg.Wait(); close(done) }()
+
+	// Ordered writer.
+	bw := newErrWriter(out)
+	pending := map[int]*batch{}
+	next := 0
+	var firstErr error
+	var st batchStats
+	st.labelRows = map[float64]int64{}
+	var rows, inBytes int64
+	for b := range done {
+		if firstErr != nil {
+			continue
+		}
+		pending[b.seq] = b
+		for {
+			nb, ok := pending[next]
+			if !ok {
+				break
+			}
+			delete(pending, next)
+			next++
+			if nb.err != nil {
+				firstErr = nb.err
+				halt()
+				break
+			}
+			if _, err := bw.Write(nb.out); err != nil {
+				firstErr = err
+				halt()
+				break
+			}
+			rows += int64(len(nb.lines))
+			inBytes += nb.bytes
+			st.merge(&nb.st)
+			select {
+			case free <- nb:
+			default:
+			}
+		}
+	}
+	halt()
+	<-readerDone
+	if firstErr == nil {
+		firstErr = readErr
+	}
+	if firstErr != nil {
+		return nil, firstErr
+	}
+	elapsed := time.Since(start).Seconds()
+
+	ws := workers[0].Stats
+	for _, w := range workers[1:] {
+		ws.Merge(&w.Stats)
+	}
+	var as spec.AnalyzerStats
+	var dropped []countPair
+	for _, w := range workers {
+		s := w.Analyzer().Stats()
+		as.Tokenizer.Add(s.Tokenizer)
+		as.StopDropped += s.StopDropped
+		if f := w.Analyzer().Filter(); f != nil {
+			for _, d := range f.Dropped() {
+				dropped = append(dropped, countPair{d.Word, d.Count})
+			}
+		}
+	}
+	s := enc.Spec()
+	fig := &report.Figures{
+		Command: "encode",
+		Input:   o.Name,
+		Spec:    s.Fingerprint,
+		Mode:    s.Content.Mode,
+		Docs:    rows,
+	}
+	fillTokenFigures(fig, as, dropped, ws.Features)
+	fig.EmptyDocs = st.empty
+	cols := int64(enc.Columns())
+	fig.Sparsity = sparsity(rows, cols, &st)
+	fig.Labels = labelCounts(st.labelRows)
+	if s.Content.Mode == spec.ModeVocabulary {
+		fig.OOV = oovFigures(&ws, o.TopUnseen)
+	} else if ws.Tally != nil {
+		fig.Collisions = collisionFigures(ws.Tally, s.Content.Hashing.Width)
+	}
+	if readBytes == 0 {
+		readBytes = inBytes
+	}
+	fig.Throughput = throughput(readBytes, rows, elapsed, nw)
+	return fig, nil
+}
+
+func encodeBatch(w *spec.Worker, enc *spec.Encoder, b *batch, row *weight.Row, o EncodeOptions) {
+	b.out = b.out[:0]
+	b.st.labelRows = map[float64]int64{}
+	for i, texts := range b.texts {
+		ds := w.Encode(texts, row)
+		label, err := enc.Label(b.labels[i], o.LabelFallback)
+		if err != nil {
+			b.err = &RecordError{File: o.Name, Line: b.lines[i], Err: err}
+			return
+		}
+		if b.labels[i] != nil {
+			b.st.labelRows[label]++
+		}
+		b.out = svmlight.AppendRow(b.out, label, row.Indices, row.Values, o.Base)
+		if o.WithIDs && b.ids[i] != nil {
+			b.out = append(b.out, " # "...)
+			b.out = appendID(b.out, b.ids[i])
+		}
+		b.out = append(b.out, '\n')
+		nnz := int64(len(row.Indices))
+		b.st.nnz += nnz
+		if nnz > b.st.maxNNZ {
+			b.st.maxNNZ = nnz
+		}
+		if ds.Features == 0 {
+			b.st.empty++
+		}
+		h := 0
+		for v := nnz + 1; v > 1; v >>= 1 {
+			h++
+		}
+		for len(b.st.hist) <= h {
+			b.st.hist = append(b.st.hist, 0)
+		}
+		b.st.hist[h]++
+	}
+}
+
+// appendID writes an id for a "# id" comment: control characters become
+// spaces so the row stays on one line.
+func appendID(dst, id []byte) []byte {
+	for _, c := range id {
+		if c < 0x20 || c == 0x7f {
+			c = ' '
+		}
+		dst = append(dst, c)
+	}
+	return dst
+}
+
+func (s *batchStats) merge(o *batchStats) {
+	s.nnz += o.nnz
+	if o.maxNNZ > s.maxNNZ {
+		s.maxNNZ = o.maxNNZ
+	}
+	s.empty += o.empty
+	for len(s.hist) < len(o.hist) {
+		s.hist = append(s.hist, 0)
+	}
+	for i, v := range o.hist {
+		s.hist[i] += v
+	}
+	if s.labelRows == nil {
+		s.labelRows = map[float64]int64{}
+	}
+	for k, v := range o.labelRows {
+		s.labelRows[k] += v
+	}
+}
+
+type countPair struct {
+	name  string
+	count int64
+}
+
+func topCounts(pairs []countPair, n int) []report.Count {
+	agg := map[string]int64{}
+	for _, p := range pairs {
+		agg[p.name] += p.count
+	}
+	out := make([]report.Count, 0, len(agg))
+	for k, v := range agg {
+		out = append(out, report.Count{Name: k, Count: v})
+	}
+	sort.Slice(out, func(i, j int) bool {
+		if out[i].Count != out[j].Count {
+			return out[i].Count > out[j].Count
+		}
+		return out[i].Name < out[j].Name
+	})
+	if n >= 0 && len(out) > n {
+		out = out[:n]
+	}
+	return out
+}
+
+func fillTokenFigures(fig *report.Figures, as spec.AnalyzerStats, dropped []countPair, features map[int]int64) {
+	fig.Tokens = as.Tokenizer.Tokens
+	fig.StopDropped = as.StopDropped
+	if fig.Tokens > 0 {
+		fig.StopShare = float64(fig.StopDropped) / float64(fig.Tokens)
+	}
+	fig.TopStopWords = topCounts(dropped, 10)
+	for _, v := range features {
+		fig.Features += v
+	}
+	fig.InvalidUTF8 = as.Tokenizer.InvalidUTF8
+	fig.NULs = as.Tokenizer.NULs
+}
+
+func sparsity(rows, cols int64, st *batchStats) report.Sparsity {
+	sp := report.Sparsity{Rows: rows, Columns: cols, NNZ: st.nnz, MaxNNZ: st.maxNNZ, NNZHistogram: st.hist}
+	if sp.NNZHistogram == nil {
+		sp.NNZHistogram = []int64{}
+	}
+	if rows > 0 {
+		sp.MeanNNZ = float64(st.nnz) / float64(rows)
+	}
+	if rows > 0 && cols > 0 {
+		sp.Density = float64(st.nnz) / (float64(rows) * float64(cols))
+	}
+	sp.Sparsity = 1 - sp.Density
+	return sp
+}
+
+func labelCounts(m map[float64]int64) []report.Count {
+	keys := make([]float64, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Float64s(keys)
+	var out []report.Count
+	for _, k := range keys {
+		out = append(out, report.Count{Name: strconv.FormatFloat(k, 'g', -1, 64), Count: m[k]})
+	}
+	return out
+}
+
+func share(a, b int64) float64 {
+	if b == 0 {
+		return 0
+	}
+	return float64(a) / float64(b)
+}
+
+func oovFigures(ws *spec.WorkerStats, top int) *report.OOV {
+	o := &report.OOV{}
+	for _, code := range ws.Codes() {
+		f, u := ws.Features[code], ws.Unseen[code]
+		k, uk := int64(len(ws.Keys[code])), int64(len(ws.UnseenKeys[code]))
+		o.Features += f
+		o.Unseen += u
+		o.Keys += k
+		o.UnseenKeys += uk
+		o.ByOrder = append(o.ByOrder, report.OrderOOV{Order: spec.OrderLabel(code), Features: f, Unseen: u,
+			Keys: k, UnseenKeys: uk, TokenShare: share(u, f), TypeShare: share(uk, k)})
+	}
+	o.TokenShare = share(o.Unseen, o.Features)
+	o.TypeShare = share(o.UnseenKeys, o.Keys)
+	if top == 0 {
+		top = 10
+	}
+	pairs := make([]countPair, 0, len(ws.TopUnseen))
+	for k, v := range ws.TopUnseen {
+		pairs = append(pairs, countPair{k, v})
+	}
+	o.TopUnseen = topCounts(pairs, top)
+	return o
+}
+
+func collisionFigures(t *hashing.Tally, width uint64) *report.Collisions {
+	c := t.Collisions(width)
+	return &report.Collisions{Width: c.Width, Keys: c.Keys, Occupied: c.Occupied, ExpectedOccupied: c.ExpectedOccupied,
+		Colliding: c.Colliding, Rate: c.Rate, ExpectedRate: c.ExpectedRate}
+}
+
+func throughput(bytes, docs int64, secs float64, workers int) report.Throughput {
+	t := report.Throughput{Bytes: bytes, Seconds: secs, Workers: workers}
+	if secs > 0 {
+		t.MBPerSec = float64(bytes) / 1e6 / secs
+		t.DocsPerSec = float64(docs) / secs
+	}
+	if math.IsInf(t.MBPerSec, 0) {
+		t.MBPerSec = 0
+	}
+	return t
+}
+
+// errWriter remembers the first write error.
+type errWriter struct {
+	w   io.Writer
+	err error
+}
+
+func newErrWriter(w io.Writer) *errWriter { return &errWriter{w: w} }
+
+func (e *errWriter) Write(p []byte) (int, error) {
+	if e.err != nil {
+		return 0, e.err
+	}
+	n, err := e.w.Write(p)
+	if err != nil {
+		e.err = err
+	} else if n < len(p) {
+		e.err = errors.New("short write")
+	}
+	return n, e.err
+}

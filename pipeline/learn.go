@@ -1,0 +1,188 @@
+package pipeline
+
+import (
+	"errors"
+	"fmt"
+	"sort"
+	"sync"
+	"time"
+
+	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/report"
+	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/vocab"
+)
+
+// LearnOptions control a learn run.
+type LearnOptions struct {
+	// Workers is the number of counting goroutines (0 = all cores).
+	Workers int
+	// Name is the corpus name used in figures and errors.
+	Name string
+	// Progress, when not nil, is called with the bytes read so far.
+	Progress func(bytesRead int64)
+	// TopTerms is how many top terms the figures list.
+	TopTerms int
+}
+
+// maxLabels bounds the distinct label values a training corpus may have.
+const maxLabels = 100000
+
+// Learn counts every record of r with l and returns the sealed spec and the
+// run's figures.
+func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *report.Figures, error) {
+	start := time.Now()
+	nw := workerCount(o.Workers)
+	free := make(chan *batch, nw*3)
+	for i := 0; i < nw*3; i++ {
+		free <- &batch{}
+	}
+	work := make(chan *batch, nw)
+	stop := make(chan struct{})
+	c := l.Content()
+	hasLabel := c.Input.Label != ""
+	labelCount := map[string]int64{}
+	var labelErr error
+
+	var readErr error
+	readerDone := make(chan struct{})
+	go func() {
+		defer close(readerDone)
+		readErr = readBatches(r, len(c.Input.Text), free, work, stop, func(rec *corpus.Record) error {
+			if o.Progress != nil {
+				o.Progress(r.BytesRead())
+			}
+			if !hasLabel {
+				return nil
+			}
+			if len(rec.Label) == 0 {
+				return &RecordError{File: o.Name, Line: rec.Line, Err: fmt.Errorf("label field %q is empty", c.Input.Label)}
+			}
+			if n, ok := labelCount[string(rec.Label)]; ok || len(labelCount) < maxLabels {
+				labelCount[string(rec.Label)] = n + 1
+			} else {
+				return &RecordError{File: o.Name, Line: rec.Line, Err: fmt.Errorf("more than %d distinct labels in field %q", maxLabels, c.Input.Label)}
+			}
+			return nil
+		})
+	}()
+
+	workers := make([]*spec.LearnWorker, nw)
+	var docs, empty, inBytes int64
+	var mu sync.Mutex
+	var wg sync.WaitGroup
+	for i := range workers {
+		workers[i] = l.NewWorker()
+		wg.Add(1)
+		go func(w *spec.LearnWorker) {
+			defer wg.Done()
+			for b := range work {
+				var e int64
+				for _, texts := range b.texts {
+					if w.Observe(texts) == 0 {
+						e++
+					}
+				}
+				mu.Lock()
+				docs += int64(len(b.lines))
+				empty += e
+				inBytes += b.bytes
+				mu.Unlock()
+				free <- b
+			}
+		}(workers[i])
+	}
+	wg.Wait()
+	<-readerDone
+	if readErr != nil {
+		return nil, nil, readErr
+	}
+	if labelErr != nil {
+		return nil, nil, labelErr
+	}
+	if docs == 0 {
+		return nil, nil, errors.New(o.Name + ": no records to learn from")
+	}
+	merged := workers[0]
+	for _, w := range workers[1:] {
+		merged.Merge(w)
+	}
+	labels := make([]string, 0, len(labelCount))
+	for k := range labelCount {
+		labels = append(labels, k)
+	}
+	sort.Strings(labels)
+	s, cut, err := l.Finish(merged, spec.LabelsFrom(labels, hasLabel))
+	if err != nil {
+		return nil, nil, err
+	}
+	elapsed := time.Since(start).Seconds()
+
+	var as spec.AnalyzerStats
+	var dropped []countPair
+	features := map[int]int64{}
+	for _, w := range workers {
+		st := w.Analyzer().Stats()
+		as.Tokenizer.Add(st.Tokenizer)
+		as.StopDropped += st.StopDropped
+		if f := w.Analyzer().Filter(); f != nil {
+			for _, d := range f.Dropped() {
+				dropped = append(dropped, countPair{d.Word, d.Count})
+			}
+		}
+	}
+	fig := &report.Figures{Command: "learn", Input: o.Name, Spec: s.Fingerprint, Mode: s.Content.Mode, Docs: docs, EmptyDocs: empty}
+	fillTokenFigures(fig, as, dropped, features)
+	fig.Features = featureTotal(merged)
+	fig.Sparsity = report.Sparsity{Columns: s.Columns(), NNZHistogram: []int64{}, Sparsity: 1}
+	if s.Content.Mode == spec.ModeVocabulary {
+		fig.Vocabulary = vocabFigures(s, cut, o.TopTerms)
+	} else if t := merged.Tally(); t != nil {
+		fig.Collisions = collisionFigures(t, s.Content.Hashing.Width)
+	}
+	for _, k := range labels {
+		fig.Labels = append(fig.Labels, report.Count{Name: k, Count: labelCount[k]})
+	}
+	fig.Throughput = throughput(maxInt64(r.BytesRead(), inBytes), docs, elapsed, nw)
+	return s, fig, nil
+}
+
+func maxInt64(a, b int64) int64 {
+	if a > b {
+		return a
+	}
+	return b
+}
+
+func featureTotal(w *spec.LearnWorker) int64 {
+	var n int64
+	if c := w.Counts(); c != nil {
+		c.Each(func(_ string, _ int, count, _ int64) { n += count })
+	}
+	return n
+}
+
+func vocabFigures(s *spec.Spec, cut vocab.CutReport, top int) *report.VocabFigures {
+	v := s.Content.Vocabulary
+	vf := &report.VocabFigures{Seen: int64(cut.Seen), Kept: int64(len(v.Keys)), BelowMinDocs: int64(cut.BelowMinDocs),
+		AboveMaxShare: int64(cut.AboveMaxShare), OverMaxTerms: int64(cut.OverMaxTerms)}
+	per := map[int]int64{}
+	for _, o := range v.Orders {
+		per[o]++
+	}
+	codes := make([]int, 0, len(per))
+	for k := range per {
+		codes = append(codes, k)
+	}
+	sort.Ints(codes)
+	for _, k := range codes {
+		vf.ByOrder = append(vf.ByOrder, report.Count{Name: spec.OrderLabel(k), Count: per[k]})
+	}
+	if top == 0 {
+		top = 10
+	}
+	for i := 0; i < len(v.Keys) && i < top; i++ {
+		vf.TopTerms = append(vf.TopTerms, report.Count{Name: v.Keys[i], Count: v.DocCounts[i]})
+	}
+	return vf
+}

@@ -1,0 +1,168 @@
+// Package pipeline runs learn and encode over a corpus with one reader, a
+// pool of workers and an ordered writer, and gathers the run's figures.
+package pipeline
+
+import (
+	"fmt"
+	"runtime"
+
+	"github.com/bowline/bowline/corpus"
+)
+
+// batchRecords and batchBytes bound one batch of records handed to a worker.
+const (
+	batchRecords = 1024
+	batchBytes   = 1 << 20
+)
+
+// RecordError is a problem with one record found after it was read (a label
+// the spec cannot map, say). It names the file and line.
+type RecordError struct {
+	File string
+	Line int64
+	Err  error
+}
+
+func (e *RecordError) Error() string { return fmt.Sprintf("%s:%d: %v", e.File, e.Line, e.Err) }
+
+func (e *RecordError) Unwrap() error { return e.Err }
+
+// batch is a run of records copied out of the reader, the unit of work.
+type batch struct {
+	seq    int
+	lines  []int64
+	texts  [][][]byte
+	flat   [][]byte
+	labels [][]byte
+	ids    [][]byte
+	arena  []byte
+	spans  []span
+	nfield int
+	bytes  int64
+
+	out []byte
+	err error
+	st  batchStats
+}
+
+type span struct{ start, end int; null bool }
+
+type batchStats struct {
+	nnz       int64
+	maxNNZ    int64
+	empty     int64
+	hist      []int64
+	labelRows map[float64]int64
+}
+
+func (b *batch) reset(seq, nfield int) {
+	b.seq = seq
+	b.nfield = nfield
+	b.lines = b.lines[:0]
+	b.arena = b.arena[:0]
+	b.spans = b.spans[:0]
+	b.bytes = 0
+	b.out = b.out[:0]
+	b.err = nil
+	b.st = batchStats{}
+}
+
+func (b *batch) add(r *corpus.Record) {
+	b.lines = append(b.lines, r.Line)
+	put := func(p []byte) {
+		if p == nil {
+			b.spans = append(b.spans, span{null: true})
+			return
+		}
+		s := len(b.arena)
+		b.arena = append(b.arena, p...)
+		b.spans = append(b.spans, span{start: s, end: len(b.arena)})
+		b.bytes += int64(len(p))
+	}
+	for _, t := range r.Text {
+		put(t)
+	}
+	put(r.Label)
+	put(r.ID)
+}
+
+// seal builds the per-record slices once the arena no longer moves.
+func (b *batch) seal() {
+	n := len(b.lines)
+	per := b.nfield + 2
+	b.texts = b.texts[:0]
+	b.labels = b.labels[:0]
+	b.ids = b.ids[:0]
+	get := func(s span) []byte {
+		if s.null {
+			return nil
+		}
+		return b.arena[s.start:s.end:s.end]
+	}
+	b.flat = b.flat[:0]
+	for i := 0; i < n; i++ {
+		sp := b.spans[i*per : (i+1)*per]
+		for f := 0; f < b.nfield; f++ {
+			b.flat = append(b.flat, get(sp[f]))
+		}
+		b.labels = append(b.labels, get(sp[b.nfield]))
+		b.ids = append(b.ids, get(sp[b.nfield+1]))
+	}
+	for i := 0; i < n; i++ {
+		b.texts = append(b.texts, b.flat[i*b.nfield:(i+1)*b.nfield:(i+1)*b.nfield])
+	}
+}
+
+func (b *batch) full() bool { return len(b.lines) >= batchRecords || len(b.arena) >= batchBytes }
+
+// workerCount resolves a --workers value (0 = all cores).
+func workerCount(n int) int {
+	if n <= 0 {
+		n = runtime.GOMAXPROCS(0)
+	}
+	return n
+}
+
+// readBatches reads r into batches sent on out, taking empty batches from
+// free; it closes out when done and returns the reader's error.
+func readBatches(r *corpus.Reader, nfield int, free chan *batch, out chan<- *batch, stop <-chan struct{}, onRecord func(*corpus.Record) error) error {
+	defer close(out)
+	seq := 0
+	b := <-free
+	b.reset(seq, nfield)
+	for r.Scan() {
+		rec := r.Record()
+		if onRecord != nil {
+			if err := onRecord(rec); err != nil {
+				return err
+			}
+		}
+		b.add(rec)
+		if b.full() {
+			b.seal()
+			select {
+			case out <- b:
+			case <-stop:
+				return nil
+			}
+			seq++
+			select {
+			case b = <-free:
+			case <-stop:
+				return nil
+			}
+			b.reset(seq, nfield)
+		}
+	}
+	if err := r.Err(); err != nil {
+		return err
+	}
+	if len(b.lines) > 0 {
+		b.seal()
+		select {
+		case out <- b:
+		case <-stop:
+		}
+	}
+	return nil
+}

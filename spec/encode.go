@@ -1,0 +1,371 @@
+package spec
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/weight"
+	"github.com/cespare/xxhash/v2"
+)
+
+// Encoder applies a frozen spec to documents. It is safe for concurrent use
+// through Workers: each goroutine calls NewWorker once.
+type Encoder struct {
+	spec     *Spec
+	analysis *Analysis
+	vocab    *vocab.Vocabulary
+	unseen   vocab.Unseen
+	hasher   *hashing.Hasher
+	tf       weight.TF
+	norm     weight.Norm
+	idf      []float64 // per column, nil when idf is none
+	idfMap   map[uint64]float64
+	idfDef   float64
+	labels   map[string]float64
+	columns  int
+}
+
+// NewEncoder prepares an encoder for s.
+func NewEncoder(s *Spec) (*Encoder, error) {
+	c := &s.Content
+	e := &Encoder{spec: s}
+	var err error
+	if e.analysis, err = c.Analysis(); err != nil {
+		return nil, err
+	}
+	if e.tf, err = weight.ParseTF(c.Weights.TF); err != nil {
+		return nil, err
+	}
+	if e.norm, err = weight.ParseNorm(c.Weights.Norm); err != nil {
+		return nil, err
+	}
+	idfMode, err := weight.ParseIDF(c.Weights.IDF)
+	if err != nil {
+		return nil, err
+	}
+	switch c.Mode {
+	case ModeVocabulary:
+		v := c.Vocabulary
+		if v == nil {
+			return nil, fmt.Errorf("vocabulary mode without a vocabulary")
+		}
+		terms := make([]vocab.Term, len(v.Keys))
+		for i, k := range v.Keys {
+			terms[i] = vocab.Term{Key: k, Order: v.Orders[i], Docs: v.DocCounts[i]}
+		}
+		if e.vocab, err = vocab.New(terms); err != nil {
+			return nil, err
+		}
+		if e.unseen, err = vocab.ParseUnseen(v.Unseen); err != nil {
+			return nil, err
+		}
+		e.columns = len(v.Keys) + e.unseen.Columns()
+		if idfMode != weight.IDFNone {
+			e.idf = make([]float64, e.columns)
+			copy(e.idf, c.Weights.IDFValues)
+			for i := len(v.Keys); i < e.columns; i++ {
+				e.idf[i] = 1
+			}
+		}
+	case ModeHashing:
+		h := c.Hashing
+		if h == nil {
+			return nil, fmt.Errorf("hashing mode without hashing settings")
+		}
+		if e.hasher, err = hashing.New(h.Width, h.Seed, h.Signed); err != nil {
+			return nil, err
+		}
+		e.columns = int(h.Width)
+		if idfMode != weight.IDFNone {
+			e.idfDef = c.Weights.IDFDefault
+			if h.Width <= 1<<24 {
+				e.idf = make([]float64, h.Width)
+				for i := range e.idf {
+					e.idf[i] = e.idfDef
+				}
+				for i, b := range c.Weights.IDFBuckets {
+					e.idf[b] = c.Weights.IDFBucketValues[i]
+				}
+			} else {
+				e.idfMap = make(map[uint64]float64, len(c.Weights.IDFBuckets))
+				for i, b := range c.Weights.IDFBuckets {
+					e.idfMap[b] = c.Weights.IDFBucketValues[i]
+				}
+			}
+		}
+	default:
+		return nil, fmt.Errorf("unknown mode %q", c.Mode)
+	}
+	if c.Labels.Kind == "string" {
+		e.labels = make(map[string]float64, len(c.Labels.Map))
+		for i, l := range c.Labels.Map {
+			e.labels[l] = float64(i + 1)
+		}
+	}
+	return e, nil
+}
+
+// Spec returns the spec the encoder applies.
+func (e *Encoder) Spec() *Spec { return e.spec }
+
+// Columns is the number of columns of every row.
+func (e *Encoder) Columns() int { return e.columns }
+
+// Analysis returns the encoder's analysis chain.
+func (e *Encoder) Analysis() *Analysis { return e.analysis }
+
+// LabelError is a label the spec cannot turn into a number.
+type LabelError struct {
+	Label  string
+	Reason string
+}
+
+func (e *LabelError) Error() string { return fmt.Sprintf("label %q: %s", e.Label, e.Reason) }
+
+// Label turns a label field into the row's label. An empty or absent label
+// (nil) gives 0, the label of unlabeled rows; fallback, when not nil, is
+// used for a string label the spec has not seen.
+func (e *Encoder) Label(raw []byte, fallback *float64) (float64, error) {
+	if raw == nil {
+		return 0, nil
+	}
+	switch e.spec.Content.Labels.Kind {
+	case "string":
+		if v, ok := e.labels[string(raw)]; ok {
+			return v, nil
+		}
+		if fallback != nil {
+			return *fallback, nil
+		}
+		return 0, &LabelError{Label: string(raw), Reason: fmt.Sprintf("not one of the %d labels seen at learn time (%s); use --label-fallback N to map unseen labels", len(e.labels), strings.Join(firstN(e.spec.Content.Labels.Map, 8), ", "))}
+	default:
+		v, err := strconv.ParseFloat(strings.TrimSpace(string(raw)), 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			if fallback != nil {
+				return *fallback, nil
+			}
+			return 0, &LabelError{Label: string(raw), Reason: "not a number, and the spec has no label map (learn saw numeric labels only)"}
+		}
+		return v, nil
+	}
+}
+
+func firstN(s []string, n int) []string {
+	if len(s) > n {
+		return append(append([]string(nil), s[:n]...), "...")
+	}
+	return s
+}
+
+// DocStats are the figures of one document.
+type DocStats struct {
+	// Features is the number of feature keys emitted.
+	Features int
+	// Unseen is the number of emitted keys not in the vocabulary.
+	Unseen int
+}
+
+// Worker encodes documents for one goroutine and gathers the run's figures.
+type Worker struct {
+	e     *Encoder
+	z     *Analyzer
+	acc   *weight.Accumulator
+	h     *hashing.Hasher
+	uh    *hashing.Hasher // unseen hash:K
+	Stats WorkerStats
+	doc   DocStats
+	track bool
+}
+
+// WorkerStats accumulates a worker's figures.
+type WorkerStats struct {
+	// Features and Unseen per order code.
+	Features map[int]int64
+	Unseen   map[int]int64
+	// Keys and UnseenKeys: distinct keys (by 64-bit hash) per order code.
+	Keys       map[int]map[uint64]struct{}
+	UnseenKeys map[int]map[uint64]struct{}
+	// TopUnseen counts unseen keys (capped at MaxTrackedUnseen keys).
+	TopUnseen map[string]int64
+	// Tally is the hashing-mode collision account.
+	Tally *hashing.Tally
+}
+
+// MaxTrackedUnseen caps how many distinct unseen keys a worker counts by
+// name for the "top unseen keys" figure.
+const MaxTrackedUnseen = 200000
+
+// NewWorker returns a worker. When track is true it gathers per-key figures
+// (distinct keys, unseen keys, collisions) as well as counts.
+func (e *Encoder) NewWorker(track bool) *Worker {
+	w := &Worker{e: e, z: e.analysis.NewAnalyzer(), acc: weight.NewAccumulator(), track: track}
+	w.Stats.Features = map[int]int64{}
+	w.Stats.Unseen = map[int]int64{}
+	if track {
+		w.Stats.Keys = map[int]map[uint64]struct{}{}
+		w.Stats.UnseenKeys = map[int]map[uint64]struct{}{}
+		w.Stats.TopUnseen = map[string]int64{}
+	}
+	if e.hasher != nil {
+		w.h = e.hasher.Clone()
+		if track {
+			w.Stats.Tally = hashing.NewTally()
+		}
+	}
+	if e.unseen.Mode == vocab.UnseenHash {
+		w.uh, _ = hashing.New(uint64(e.unseen.Buckets), 0, false)
+	}
+	return w
+}
+
+// Analyzer returns the worker's analyzer (for its token figures).
+func (w *Worker) Analyzer() *Analyzer { return w.z }
+
+// Encode turns one document into a row (reusing dst's storage).
+func (w *Worker) Encode(texts [][]byte, dst *weight.Row) DocStats {
+	w.acc.Reset()
+	w.doc = DocStats{}
+	w.z.Analyze(texts, w.add)
+	e := w.e
+	var idf []float64
+	if e.idf != nil {
+		idf = e.idf
+	}
+	if e.idfMap == nil {
+		w.acc.Finish(e.tf, idf, e.norm, dst)
+		return w.doc
+	}
+	w.acc.Finish(e.tf, nil, weight.NormNone, dst)
+	for i, c := range dst.Indices {
+		v, ok := e.idfMap[uint64(c)]
+		if !ok {
+			v = e.idfDef
+		}
+		dst.Values[i] *= v
+	}
+	normalize(e.norm, dst.Values)
+	return w.doc
+}
+
+func (w *Worker) add(key []byte, code int) {
+	e := w.e
+	w.doc.Features++
+	w.Stats.Features[code]++
+	if e.vocab != nil {
+		col, ok := e.vocab.Lookup(key)
+		var sum uint64
+		if w.track {
+			sum = xxhash.Sum64(key)
+			addKey(w.Stats.Keys, code, sum)
+		}
+		if ok {
+			w.acc.Add(col, 1)
+			return
+		}
+		w.doc.Unseen++
+		w.Stats.Unseen[code]++
+		if w.track {
+			addKey(w.Stats.UnseenKeys, code, sum)
+			if n, ok := w.Stats.TopUnseen[string(key)]; ok || len(w.Stats.TopUnseen) < MaxTrackedUnseen {
+				w.Stats.TopUnseen[string(key)] = n + 1
+			}
+		}
+		base := e.vocab.Len()
+		switch e.unseen.Mode {
+		case vocab.UnseenCount:
+			w.acc.Add(base, 1)
+		case vocab.UnseenHash:
+			b, _ := w.uh.Bucket(key)
+			w.acc.Add(base+int(b), 1)
+		}
+		return
+	}
+	sum := w.h.Sum(key)
+	b := hashing.BucketOf(sum, e.hasher.Width)
+	sign := 1.0
+	if e.hasher.Signed && sum>>63 == 1 {
+		sign = -1
+	}
+	w.acc.Add(int(b), sign)
+	if w.Stats.Tally != nil {
+		w.Stats.Tally.Add(sum)
+	}
+}
+
+func addKey(m map[int]map[uint64]struct{}, code int, sum uint64) {
+	s := m[code]
+	if s == nil {
+		s = map[uint64]struct{}{}
+		m[code] = s
+	}
+	s[sum] = struct{}{}
+}
+
+// Merge adds o's figures to w's.
+func (s *WorkerStats) Merge(o *WorkerStats) {
+	for k, v := range o.Features {
+		s.Features[k] += v
+	}
+	for k, v := range o.Unseen {
+		s.Unseen[k] += v
+	}
+	mergeSets := func(dst, src map[int]map[uint64]struct{}) {
+		for code, set := range src {
+			for h := range set {
+				addKey(dst, code, h)
+			}
+		}
+	}
+	if s.Keys != nil {
+		mergeSets(s.Keys, o.Keys)
+		mergeSets(s.UnseenKeys, o.UnseenKeys)
+		for k, v := range o.TopUnseen {
+			if n, ok := s.TopUnseen[k]; ok || len(s.TopUnseen) < MaxTrackedUnseen {
+				s.TopUnseen[k] = n + v
+			}
+		}
+	}
+	if s.Tally != nil && o.Tally != nil {
+		s.Tally.Merge(o.Tally)
+	}
+}
+
+// Codes returns the order codes present, ascending.
+func (s *WorkerStats) Codes() []int {
+	var codes []int
+	for k := range s.Features {
+		codes = append(codes, k)
+	}
+	sort.Ints(codes)
+	return codes
+}
+
+// normalize scales values to unit L1 or L2 norm (used where idf is applied
+// outside the accumulator).
+func normalize(n weight.Norm, v []float64) {
+	var t float64
+	switch n {
+	case weight.NormL1:
+		for _, x := range v {
+			t += math.Abs(x)
+		}
+	case weight.NormL2:
+		for _, x := range v {
+			t += x * x
+		}
+		t = math.Sqrt(t)
+	default:
+		return
+	}
+	if t == 0 {
+		return
+	}
+	for i := range v {
+		v[i] /= t
+	}
+}

@@ -1,0 +1,232 @@
+package spec
+
+import (
+	"fmt"
+	"sort"
+
+	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/stopwords"
+	"github.com/bowline/bowline/tokenize"
+	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/weight"
+)
+
+// Settings are the choices a user makes before learning: everything in a
+// spec except the numbers learned from the corpus.
+type Settings struct {
+	Input  Input
+	Tokens tokenize.Options
+	// StopSources are the --stop arguments; StopWords the words they
+	// contributed, before normalization.
+	StopSources   []string
+	StopWords     []string
+	KeepNegations bool
+	// Stem is a stemming language code, or "" / "none".
+	Stem    string
+	NGrams  ngram.Config
+	Mode    string
+	Cutoffs vocab.Cutoffs
+	Unseen  vocab.Unseen
+	Hashing Hashing
+	TF      weight.TF
+	IDF     weight.IDF
+	Norm    weight.Norm
+}
+
+// Content returns the spec content the settings describe, without learned
+// numbers: the normalized stop list is computed here.
+func (s *Settings) Content() (Content, error) {
+	c := Content{
+		Input:  s.Input,
+		Tokens: TokensFrom(s.Tokens),
+		Stem:   "none",
+		NGrams: NGrams{Words: s.NGrams.Words.String(), Chars: s.NGrams.Chars.String()},
+		Mode:   s.Mode,
+		Weights: Weights{TF: s.TF.String(), IDF: s.IDF.String(), Norm: s.Norm.String()},
+	}
+	if s.Stem != "" && s.Stem != "none" {
+		st, err := tokenize.NewStemmer(s.Stem)
+		if err != nil {
+			return c, err
+		}
+		c.Stem = st.Language()
+	}
+	if len(s.StopWords) > 0 {
+		tok, err := tokenize.New(s.Tokens)
+		if err != nil {
+			return c, err
+		}
+		set := stopwords.NewSet(s.StopWords, tok.AppendNormalized, s.KeepNegations)
+		c.Stop = Stop{Sources: s.StopSources, KeepNegations: s.KeepNegations, Words: set.Words()}
+	} else {
+		c.Stop = Stop{Sources: s.StopSources, KeepNegations: s.KeepNegations}
+	}
+	switch s.Mode {
+	case ModeVocabulary:
+		if err := s.Cutoffs.Validate(); err != nil {
+			return c, err
+		}
+		c.Vocabulary = &Vocabulary{MinDocs: s.Cutoffs.MinDocs, MaxDocShare: s.Cutoffs.MaxDocShare,
+			MaxTerms: s.Cutoffs.MaxTerms, Unseen: s.Unseen.String()}
+	case ModeHashing:
+		h := s.Hashing
+		if _, err := hashing.New(h.Width, h.Seed, h.Signed); err != nil {
+			return c, err
+		}
+		c.Hashing = &h
+	default:
+		return c, fmt.Errorf("unknown mode %q", s.Mode)
+	}
+	return c, nil
+}
+
+// Learner fits a spec on a training corpus. Each goroutine observes
+// documents through its own LearnWorker; the workers are merged at the end.
+type Learner struct {
+	content  Content
+	analysis *Analysis
+	idf      weight.IDF
+	cutoffs  vocab.Cutoffs
+}
+
+// NewLearner prepares learning with the given settings.
+func NewLearner(s *Settings) (*Learner, error) {
+	c, err := s.Content()
+	if err != nil {
+		return nil, err
+	}
+	a, err := c.Analysis()
+	if err != nil {
+		return nil, err
+	}
+	return &Learner{content: c, analysis: a, idf: s.IDF, cutoffs: s.Cutoffs}, nil
+}
+
+// Content is the content being learned (settings only until Finish).
+func (l *Learner) Content() *Content { return &l.content }
+
+// LearnWorker counts the documents one goroutine sees.
+type LearnWorker struct {
+	l      *Learner
+	z      *Analyzer
+	counts *vocab.Counts
+	h      *hashing.Hasher
+	tally  *hashing.Tally
+	// bucket document frequencies (hashing mode with idf)
+	bdf     map[uint64]int64
+	touched map[uint64]struct{}
+	docs    int64
+}
+
+// NewWorker returns a worker for one goroutine.
+func (l *Learner) NewWorker() *LearnWorker {
+	w := &LearnWorker{l: l, z: l.analysis.NewAnalyzer()}
+	if l.content.Mode == ModeVocabulary {
+		w.counts = vocab.NewCounts()
+	} else {
+		h := l.content.Hashing
+		w.h, _ = hashing.New(h.Width, h.Seed, h.Signed)
+		w.tally = hashing.NewTally()
+		if l.idf != weight.IDFNone {
+			w.bdf = map[uint64]int64{}
+			w.touched = map[uint64]struct{}{}
+		}
+	}
+	return w
+}
+
+// Analyzer returns the worker's analyzer (for its token figures).
+func (w *LearnWorker) Analyzer() *Analyzer { return w.z }
+
+// Observe counts one training document; it returns the number of feature
+// keys the document produced.
+func (w *LearnWorker) Observe(texts [][]byte) int {
+	n := 0
+	w.docs++
+	if w.counts != nil {
+		w.z.Analyze(texts, func(key []byte, code int) {
+			n++
+			w.counts.Add(key, code)
+		})
+		w.counts.EndDoc()
+		return n
+	}
+	width := w.l.content.Hashing.Width
+	w.z.Analyze(texts, func(key []byte, code int) {
+		n++
+		sum := w.h.Sum(key)
+		w.tally.Add(sum)
+		if w.touched != nil {
+			w.touched[hashing.BucketOf(sum, width)] = struct{}{}
+		}
+	})
+	for b := range w.touched {
+		w.bdf[b]++
+		delete(w.touched, b)
+	}
+	return n
+}
+
+// Merge adds o's counts to w's.
+func (w *LearnWorker) Merge(o *LearnWorker) {
+	w.docs += o.docs
+	if w.counts != nil {
+		w.counts.Merge(o.counts)
+		return
+	}
+	w.tally.Merge(o.tally)
+	for b, n := range o.bdf {
+		w.bdf[b] += n
+	}
+}
+
+// Tally is the hashing-mode collision account (nil in vocabulary mode).
+func (w *LearnWorker) Tally() *hashing.Tally { return w.tally }
+
+// Counts are the vocabulary-mode counts (nil in hashing mode).
+func (w *LearnWorker) Counts() *vocab.Counts { return w.counts }
+
+// Finish turns the merged counts of w into a sealed spec; labels are the
+// distinct training label values.
+func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport, error) {
+	c := l.content
+	c.Docs = w.docs
+	c.Labels = labels
+	var rep vocab.CutReport
+	if c.Mode == ModeVocabulary {
+		v, r := w.counts.Build(l.cutoffs)
+		rep = r
+		vv := *c.Vocabulary
+		vv.Keys = make([]string, len(v.Terms))
+		vv.Orders = make([]int, len(v.Terms))
+		vv.DocCounts = make([]int64, len(v.Terms))
+		for i, t := range v.Terms {
+			vv.Keys[i], vv.Orders[i], vv.DocCounts[i] = t.Key, t.Order, t.Docs
+		}
+		c.Vocabulary = &vv
+		if l.idf != weight.IDFNone {
+			c.Weights.IDFValues = weight.IDFTable(l.idf, c.Docs, vv.DocCounts)
+		}
+	} else if l.idf != weight.IDFNone {
+		buckets := make([]uint64, 0, len(w.bdf))
+		for b := range w.bdf {
+			buckets = append(buckets, b)
+		}
+		sort.Slice(buckets, func(i, j int) bool { return buckets[i] < buckets[j] })
+		c.Weights.IDFBuckets = buckets
+		c.Weights.IDFBucketValues = make([]float64, len(buckets))
+		for i, b := range buckets {
+			c.Weights.IDFBucketValues[i] = l.idf.Value(c.Docs, w.bdf[b])
+		}
+		c.Weights.IDFDefault = l.idf.Value(c.Docs, 0)
+	}
+	s := &Spec{Content: c}
+	if err := s.Seal(); err != nil {
+		return nil, rep, err
+	}
+	if err := s.Validate(); err != nil {
+		return nil, rep, err
+	}
+	return s, rep, nil
+}

@@ -1,0 +1,356 @@
+// Package spec is bowline's frozen spec: its schema, save and load with a
+// fingerprint check, validation, and the encoder that applies it to text.
+package spec
+
+import (
+	"bufio"
+	"bytes"
+	"compress/gzip"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"github.com/bowline/bowline/atomicfile"
+)
+
+// SchemaVersion is the version of the spec file layout this build writes and
+// the newest it reads.
+const SchemaVersion = 1
+
+// ToolVersion is bowline's version, recorded in every spec it writes.
+const ToolVersion = "0.1.0"
+
+// Mode names.
+const (
+	ModeVocabulary = "vocabulary"
+	ModeHashing    = "hashing"
+)
+
+// Spec is a frozen transformation from text to rows: every setting that
+// changes a row and every number learned from the training corpus.
+type Spec struct {
+	// Fingerprint is "sha256:" and the hex SHA-256 of the canonical
+	// encoding of Content (see Canonical). Set by Seal and checked by Load.
+	Fingerprint string
+	// Parent is the fingerprint of the spec this one extends, if any.
+	Parent string
+	// Tool is the bowline version that wrote the spec.
+	Tool string
+	// Content is everything that changes a row.
+	Content Content
+}
+
+// Content is the fingerprinted part of a spec.
+type Content struct {
+	// Input holds the corpus field names used at learn time; later runs
+	// use them as defaults.
+	Input Input `json:"input"`
+	// Tokens are the tokenizer settings.
+	Tokens Tokens `json:"tokens"`
+	// Stop is the stop list, stored in full.
+	Stop Stop `json:"stop"`
+	// Stem is the stemming language code, or "none".
+	Stem string `json:"stem"`
+	// NGrams are the n-gram ranges.
+	NGrams NGrams `json:"ngrams"`
+	// Mode is ModeVocabulary or ModeHashing.
+	Mode string `json:"mode"`
+	// Docs is the number of training documents.
+	Docs int64 `json:"docs"`
+	// Vocabulary is set in vocabulary mode.
+	Vocabulary *Vocabulary `json:"vocabulary,omitempty"`
+	// Hashing is set in hashing mode.
+	Hashing *Hashing `json:"hashing,omitempty"`
+	// Weights are the weighting settings and learned idf values.
+	Weights Weights `json:"weights"`
+	// Labels describes how labels become numbers.
+	Labels Labels `json:"labels"`
+}
+
+// Input names the corpus fields.
+type Input struct {
+	Format   string   `json:"format"`
+	Text     []string `json:"text"`
+	Label    string   `json:"label,omitempty"`
+	ID       string   `json:"id,omitempty"`
+	NoHeader bool     `json:"no_header,omitempty"`
+}
+
+// Tokens are the tokenizer settings, as flag words.
+type Tokens struct {
+	Unicode string `json:"unicode"`
+	Case    string `json:"case"`
+	Accents string `json:"accents"`
+	Numbers string `json:"numbers"`
+	MinLen  int    `json:"min_len"`
+	MaxLen  int    `json:"max_len"`
+}
+
+// Stop is the stop list in force.
+type Stop struct {
+	// Sources are the --stop arguments (language codes or file names).
+	Sources []string `json:"sources,omitempty"`
+	// KeepNegations is true unless --drop-negations was given.
+	KeepNegations bool `json:"keep_negations"`
+	// Words is the normalized stop list itself, sorted by bytes.
+	Words []string `json:"words,omitempty"`
+}
+
+// NGrams are the n-gram ranges ("1-2", "off").
+type NGrams struct {
+	Words string `json:"words"`
+	Chars string `json:"chars"`
+}
+
+// Vocabulary is the learned vocabulary: column i is Keys[i].
+type Vocabulary struct {
+	MinDocs     int64   `json:"min_docs"`
+	MaxDocShare float64 `json:"max_doc_share"`
+	MaxTerms    int     `json:"max_terms"`
+	// Unseen is the unseen-key policy ("drop", "count", "hash:K").
+	Unseen string `json:"unseen"`
+	// Keys, Orders and DocCounts are parallel: the key of each column, its
+	// n-gram order code (kind*100 + n) and its training document count.
+	Keys      []string `json:"keys"`
+	Orders    []int    `json:"orders"`
+	DocCounts []int64  `json:"doc_counts"`
+	// Retired marks columns kept from a parent spec whose keys no longer
+	// pass the cutoffs (same length as Keys, or empty).
+	Retired []bool `json:"retired,omitempty"`
+}
+
+// Hashing holds the hashing-space settings.
+type Hashing struct {
+	Width  uint64 `json:"width"`
+	Seed   uint64 `json:"seed"`
+	Signed bool   `json:"signed"`
+}
+
+// Weights are the weighting settings and learned numbers.
+type Weights struct {
+	TF   string `json:"tf"`
+	IDF  string `json:"idf"`
+	Norm string `json:"norm"`
+	// IDFValues holds one idf per vocabulary column (vocabulary mode, when
+	// IDF is not "none"). Extra unseen columns have weight 1.
+	IDFValues []float64 `json:"idf_values,omitempty"`
+	// IDFBuckets and IDFBucketValues hold the idf of every bucket seen at
+	// learn time (hashing mode); other buckets get IDFDefault.
+	IDFBuckets      []uint64  `json:"idf_buckets,omitempty"`
+	IDFBucketValues []float64 `json:"idf_bucket_values,omitempty"`
+	IDFDefault      float64   `json:"idf_default,omitempty"`
+}
+
+// Labels says how label fields become numbers.
+type Labels struct {
+	// Kind is "none" (no label field), "number" (numeric labels pass
+	// through) or "string" (mapped by Map).
+	Kind string `json:"kind"`
+	// Map lists string labels sorted by bytes; label Map[i] is written as
+	// i+1 (0 is the label of unlabeled rows).
+	Map []string `json:"map,omitempty"`
+}
+
+// Columns is the number of columns of the rows the spec produces.
+func (s *Spec) Columns() int64 {
+	c := &s.Content
+	if c.Mode == ModeHashing && c.Hashing != nil {
+		return int64(c.Hashing.Width)
+	}
+	if c.Vocabulary == nil {
+		return 0
+	}
+	n := int64(len(c.Vocabulary.Keys))
+	u, err := parseUnseenColumns(c.Vocabulary.Unseen)
+	if err == nil {
+		n += int64(u)
+	}
+	return n
+}
+
+// Canonical returns the canonical encoding of the content: compact JSON in
+// the field order of the Go structs above, floats in shortest round-trip
+// form, no insignificant space. The fingerprint is its SHA-256.
+func (c *Content) Canonical() ([]byte, error) {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(c); err != nil {
+		return nil, err
+	}
+	return bytes.TrimSuffix(buf.Bytes(), []byte("\n")), nil
+}
+
+// Seal computes and sets the fingerprint.
+func (s *Spec) Seal() error {
+	b, err := s.Content.Canonical()
+	if err != nil {
+		return err
+	}
+	sum := sha256.Sum256(b)
+	s.Fingerprint = "sha256:" + hex.EncodeToString(sum[:])
+	s.Tool = ToolVersion
+	return nil
+}
+
+// ShortFingerprint is the first 12 hex digits of the fingerprint.
+func (s *Spec) ShortFingerprint() string {
+	f := strings.TrimPrefix(s.Fingerprint, "sha256:")
+	if len(f) > 12 {
+		return f[:12]
+	}
+	return f
+}
+
+type fileLayout struct {
+	Schema      int             `json:"schema"`
+	Tool        string          `json:"tool"`
+	Fingerprint string          `json:"fingerprint"`
+	Parent      string          `json:"parent,omitempty"`
+	Content     json.RawMessage `json:"content"`
+}
+
+// Write writes the sealed spec as JSON.
+func (s *Spec) Write(w io.Writer) error {
+	if s.Fingerprint == "" {
+		if err := s.Seal(); err != nil {
+			return err
+		}
+	}
+	content, err := s.Content.Canonical()
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	enc.SetIndent("", " ")
+	err = enc.Encode(fileLayout{Schema: SchemaVersion, Tool: s.Tool, Fingerprint: s.Fingerprint, Parent: s.Parent, Content: content})
+	if err != nil {
+		return err
+	}
+	_, err = w.Write(buf.Bytes())
+	return err
+}
+
+// Save writes the spec to path atomically, gzipped when the name ends in
+// ".gz".
+func (s *Spec) Save(path string) error {
+	return atomicfile.WriteFile(path, func(w io.Writer) error {
+		if strings.HasSuffix(path, ".gz") {
+			zw, _ := gzip.NewWriterLevel(w, gzip.BestCompression)
+			if err := s.Write(zw); err != nil {
+				return err
+			}
+			return zw.Close()
+		}
+		return s.Write(w)
+	})
+}
+
+// LoadError explains why a spec file was refused.
+type LoadError struct {
+	// File is the spec's path.
+	File string
+	// Reason is one of "unreadable", "truncated", "not a spec", "newer
+	// schema", "fingerprint mismatch", "invalid".
+	Reason string
+	// Err is the detail.
+	Err error
+}
+
+func (e *LoadError) Error() string {
+	return fmt.Sprintf("spec %s: %s: %v", e.File, e.Reason, e.Err)
+}
+
+func (e *LoadError) Unwrap() error { return e.Err }
+
+// Load reads a spec file (gzipped or not, by magic bytes), checks its schema
+// version and fingerprint, and validates it.
+func Load(path string) (*Spec, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, &LoadError{File: path, Reason: "unreadable", Err: unwrapPathErr(err)}
+	}
+	defer f.Close()
+	return Read(f, path)
+}
+
+func unwrapPathErr(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// Read reads a spec from r; name is used in errors.
+func Read(r io.Reader, name string) (*Spec, error) {
+	br := bufio.NewReader(r)
+	var src io.Reader = br
+	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+		zr, err := gzip.NewReader(br)
+		if err != nil {
+			return nil, &LoadError{File: name, Reason: "truncated", Err: err}
+		}
+		src = zr
+	}
+	data, err := io.ReadAll(src)
+	if err != nil {
+		reason := "unreadable"
+		if errors.Is(err, io.ErrUnexpectedEOF) {
+			reason = "truncated"
+		}
+		return nil, &LoadError{File: name, Reason: reason, Err: err}
+	}
+	var fl fileLayout
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(&fl); err != nil {
+		reason := "not a spec"
+		if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF) {
+			reason = "truncated"
+		}
+		return nil, &LoadError{File: name, Reason: reason, Err: err}
+	}
+	if fl.Schema == 0 || fl.Content == nil {
+		return nil, &LoadError{File: name, Reason: "not a spec", Err: errors.New("no schema or content field")}
+	}
+	if fl.Schema > SchemaVersion {
+		return nil, &LoadError{File: name, Reason: "newer schema", Err: fmt.Errorf("schema version %d (written by bowline %s); this bowline %s reads up to version %d", fl.Schema, fl.Tool, ToolVersion, SchemaVersion)}
+	}
+	s := &Spec{Fingerprint: fl.Fingerprint, Parent: fl.Parent, Tool: fl.Tool}
+	cdec := json.NewDecoder(bytes.NewReader(fl.Content))
+	cdec.DisallowUnknownFields()
+	if err := cdec.Decode(&s.Content); err != nil {
+		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
+	}
+	canon, err := s.Content.Canonical()
+	if err != nil {
+		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
+	}
+	sum := sha256.Sum256(canon)
+	if want := "sha256:" + hex.EncodeToString(sum[:]); want != fl.Fingerprint {
+		return nil, &LoadError{File: name, Reason: "fingerprint mismatch", Err: fmt.Errorf("file says %s but its contents hash to %s: the spec was edited or damaged after bowline wrote it", short(fl.Fingerprint), short(want))}
+	}
+	if err := s.Validate(); err != nil {
+		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
+	}
+	return s, nil
+}
+
+func short(f string) string {
+	f = strings.TrimPrefix(f, "sha256:")
+	if len(f) > 12 {
+		return f[:12]
+	}
+	if f == "" {
+		return "(none)"
+	}
+	return f
+}
