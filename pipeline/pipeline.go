@@ -45,7 +45,10 @@ type batch struct {
 	st  batchStats
 }
 
-type span struct{ start, end int; null bool }
+type span struct {
+	start, end int
+	null       bool
+}
 
 type batchStats struct {
 	nnz       int64

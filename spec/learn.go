@@ -38,11 +38,11 @@ type Settings struct {
 // numbers: the normalized stop list is computed here.
 func (s *Settings) Content() (Content, error) {
 	c := Content{
-		Input:  s.Input,
-		Tokens: TokensFrom(s.Tokens),
-		Stem:   "none",
-		NGrams: NGrams{Words: s.NGrams.Words.String(), Chars: s.NGrams.Chars.String()},
-		Mode:   s.Mode,
+		Input:   s.Input,
+		Tokens:  TokensFrom(s.Tokens),
+		Stem:    "none",
+		NGrams:  NGrams{Words: s.NGrams.Words.String(), Chars: s.NGrams.Chars.String()},
+		Mode:    s.Mode,
 		Weights: Weights{TF: s.TF.String(), IDF: s.IDF.String(), Norm: s.Norm.String()},
 	}
 	if s.Stem != "" && s.Stem != "none" {
