@@ -6,6 +6,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/vocab"
@@ -28,6 +29,7 @@ type Encoder struct {
 	idfDef   float64
 	labels   map[string]float64
 	columns  int
+	pool     sync.Pool
 }
 
 // NewEncoder prepares an encoder for s.
@@ -368,4 +370,20 @@ func normalize(n weight.Norm, v []float64) {
 	for i := range v {
 		v[i] /= t
 	}
+}
+
+// Encode encodes one document into a fresh row. Unlike Worker.Encode it is
+// safe for concurrent use: workers are pooled inside the encoder. Figures
+// gathered by pooled workers are not reported anywhere.
+func (e *Encoder) Encode(texts [][]byte) (weight.Row, DocStats) {
+	w, _ := e.pool.Get().(*Worker)
+	if w == nil {
+		w = e.NewWorker(false)
+	}
+	var row weight.Row
+	ds := w.Encode(texts, &row)
+	// Fresh slices: the caller owns the row.
+	out := weight.Row{Indices: append([]int(nil), row.Indices...), Values: append([]float64(nil), row.Values...)}
+	e.pool.Put(w)
+	return out, ds
 }
