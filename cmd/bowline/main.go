@@ -12,6 +12,7 @@ import (
 	"os"
 	"os/signal"
 	"runtime/debug"
+	"sort"
 	"syscall"
 
 	"github.com/bowline/bowline/atomicfile"
@@ -39,16 +40,32 @@ type commandEntry struct {
 	run   commandFunc
 }
 
+// commands are the subcommands; files add theirs with register.
 var commands []commandEntry
 
-func init() {
-	commands = []commandEntry{
-		{"learn", "read a training corpus, count, apply cutoffs, write a spec", runLearn},
-		{"encode", "apply a spec to a corpus: SVMlight rows and the run's figures", runEncode},
-		{"inspect", "show a spec: fingerprint, settings, size, top terms", runInspect},
-		{"demo", "run the whole job on the invented Pellwick Bike Share corpus", runDemo},
-		{"version", "print version and build information", runVersion},
+// commandOrder is the order "bowline help" lists commands in.
+var commandOrder = []string{"learn", "encode", "inspect", "drift", "sweep", "merge", "serve", "demo", "version"}
+
+// register adds a subcommand (called from init functions).
+func register(name, about string, run commandFunc) {
+	commands = append(commands, commandEntry{name, about, run})
+	rank := func(n string) int {
+		for i, o := range commandOrder {
+			if o == n {
+				return i
+			}
+		}
+		return len(commandOrder)
 	}
+	sort.SliceStable(commands, func(i, j int) bool { return rank(commands[i].name) < rank(commands[j].name) })
+}
+
+func init() {
+	register("learn", "read a training corpus, count, apply cutoffs, write a spec", runLearn)
+	register("encode", "apply a spec to a corpus: SVMlight rows and the run's figures", runEncode)
+	register("inspect", "show a spec: fingerprint, settings, size, top terms", runInspect)
+	register("demo", "run the whole job on the invented Pellwick Bike Share corpus", runDemo)
+	register("version", "print version and build information", runVersion)
 }
 
 func main() {
