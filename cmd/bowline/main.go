@@ -13,6 +13,7 @@ import (
 	"os/signal"
 	"runtime/debug"
 	"sort"
+	"sync/atomic"
 	"syscall"
 
 	"github.com/bowline/bowline/atomicfile"
@@ -68,11 +69,20 @@ func init() {
 	register("version", "print version and build information", runVersion)
 }
 
+// signalHook, when set, receives SIGINT or SIGTERM instead of the default
+// handling (remove temporary files, exit 130). A long-running command such
+// as serve sets it to shut down gracefully.
+var signalHook atomic.Pointer[func(os.Signal)]
+
 func main() {
 	sigs := make(chan os.Signal, 1)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
 	go func() {
 		s := <-sigs
+		if h := signalHook.Load(); h != nil {
+			(*h)(s)
+			return
+		}
 		atomicfile.AbortAll()
 		fmt.Fprintf(os.Stderr, "bowline: stopped by %v; no partial output left\n", s)
 		os.Exit(130)
