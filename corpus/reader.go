@@ -443,7 +443,7 @@ func (r *Reader) readLine() ([]byte, error) {
 		chunk, err := r.br.ReadSlice('\n')
 		if err == nil {
 			if len(r.buf) > 0 {
-				r.buf = append(r.buf, chunk...)
+				r.buf = appendGrow(r.buf, chunk)
 				line = r.buf
 			} else {
 				line = chunk
@@ -451,14 +451,14 @@ func (r *Reader) readLine() ([]byte, error) {
 			break
 		}
 		if err == bufio.ErrBufferFull {
-			r.buf = append(r.buf, chunk...)
+			r.buf = appendGrow(r.buf, chunk)
 			continue
 		}
 		if err == io.EOF {
 			if len(r.buf)+len(chunk) == 0 {
 				return nil, io.EOF
 			}
-			r.buf = append(r.buf, chunk...)
+			r.buf = appendGrow(r.buf, chunk)
 			line = r.buf
 			break
 		}
@@ -472,6 +472,17 @@ func (r *Reader) readLine() ([]byte, error) {
 		}
 	}
 	return line, nil
+}
+
+// appendGrow appends b to buf, doubling the capacity when it must grow, so
+// that assembling a very long line copies each byte only a few times.
+func appendGrow(buf, b []byte) []byte {
+	if n := len(buf) + len(b); n > cap(buf) {
+		nb := make([]byte, len(buf), max(2*cap(buf), n, bufSize))
+		copy(nb, buf)
+		buf = nb
+	}
+	return append(buf, b...)
 }
 
 // column returns the byte column in the file for a column counted in the
