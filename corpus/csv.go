@@ -7,12 +7,6 @@ import (
 	"io"
 )
 
-// CSV is read with encoding/csv as RFC 4180 describes it: quoted fields
-// may hold commas, doubled quotes and line breaks; every row must have as
-// many fields as the header; a stray quote is an error. Two properties of
-// encoding/csv show through: a CRLF inside a quoted field is read as LF,
-// and empty lines are skipped (they are not records).
-
 func (r *Reader) nextCSV() error {
 	row, err := r.cr.Read()
 	if err != nil {

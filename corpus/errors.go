@@ -9,7 +9,9 @@ import (
 // Errors wrapped by [ParseError].
 var (
 	// ErrFieldCount means a TSV or CSV row has more or fewer fields than
-	// the header (or, without a header, the first row).
+	// the header (or, without a header, the first row). The ParseError's
+	// position is the start of the first surplus field, or of the last
+	// field present when fields are missing; its message gives both counts.
 	ErrFieldCount = errors.New("wrong number of fields")
 	// ErrMissingField means a JSON object lacks a requested key.
 	ErrMissingField = errors.New("missing field")

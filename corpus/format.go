@@ -10,15 +10,36 @@ import (
 // Format is the layout of a corpus file.
 type Format uint8
 
+// The formats. Every format strips a UTF-8 byte order mark at the start of
+// the file and reads gzip input transparently.
 const (
 	// Lines holds one document per line; the whole line is the text.
+	// A line ends at LF or CRLF; a lone CR is part of the text. An empty
+	// line is an empty document (still a record), and a last line without
+	// a line break is read like any other.
 	Lines Format = iota
-	// TSV holds tab-separated fields, one record per line, with
-	// backslash escapes \t \n \r \\ decoded inside fields.
+	// TSV holds tab-separated fields, one record per line (LF or CRLF),
+	// without quoting. Because a field cannot hold a raw tab or line break
+	// (IANA text/tab-separated-values), the common escapes \t, \n, \r and
+	// \\ are decoded inside fields; a backslash before any other byte is
+	// kept. Every row must have as many fields as the header (or, without
+	// one, the first row); an empty line is a row of one empty field.
 	TSV
-	// CSV holds comma-separated fields as described by RFC 4180.
+	// CSV holds comma-separated fields as RFC 4180 describes them, read
+	// with encoding/csv: quoted fields may hold commas, doubled quotes and
+	// line breaks; every row must have as many fields as the header (or,
+	// without one, the first row); a stray quote is an error. As in
+	// encoding/csv, a CRLF inside a quoted field reads as LF and empty
+	// lines are skipped (they are not records).
 	CSV
-	// JSONL holds one JSON object per line (JSON Lines).
+	// JSONL holds one JSON object (RFC 8259) per line. Lines that are
+	// empty or white space only are skipped: they are not records, though
+	// line numbers count them. Fields are top-level keys; when a key
+	// repeats, the last value wins. A text field takes a string, and null
+	// as an empty document; a label or id field takes a string or a number
+	// (kept as its JSON literal), and null as empty. A missing key or a
+	// value of another type is a *ParseError. Strings decode exactly as
+	// encoding/json decodes them.
 	JSONL
 )
 

@@ -10,17 +10,6 @@ import (
 	"unicode/utf8"
 )
 
-// JSON Lines: each line holds one JSON object (RFC 8259). Lines that are
-// empty or hold only white space are skipped; they are not records, and
-// the line numbers of later records still count them. Fields are top-level
-// keys; when a key repeats, the last value wins, as with encoding/json.
-//
-// A text field takes a string; null is an empty document. A label or id
-// field takes a string or a number (kept as its JSON literal); null is an
-// empty value. A missing key or a value of another type is a *ParseError.
-// Strings are decoded exactly as encoding/json decodes them, including
-// U+FFFD for invalid UTF-8 and unpaired surrogates.
-
 type span struct {
 	start, end int // value bytes in the line, quotes included
 	found      bool

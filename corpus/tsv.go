@@ -5,11 +5,6 @@ import (
 	"fmt"
 )
 
-// TSV rows are split on every tab; there is no quoting. Because a field
-// cannot hold a raw tab or newline (IANA text/tab-separated-values), the
-// common escapes \t, \n, \r and \\ are decoded inside fields. A backslash
-// before any other byte, or at the end of a field, is kept as it is.
-
 func (r *Reader) nextTSV() error {
 	line, err := r.readLine()
 	if err != nil {
