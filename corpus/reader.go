@@ -494,22 +494,6 @@ func (r *Reader) column(line int64, col int) int {
 	return col
 }
 
-// fieldName returns the Options name of column col, for error messages.
-func (r *Reader) fieldName(col int) string {
-	for i, c := range r.textCols {
-		if c == col {
-			return r.opt.Text[i]
-		}
-	}
-	switch col {
-	case r.labelCol:
-		return r.opt.Label
-	case r.idCol:
-		return r.opt.ID
-	}
-	return ""
-}
-
 // fill sets r.rec's fields from a table row.
 func (r *Reader) fill(row [][]byte) {
 	for i, c := range r.textCols {
