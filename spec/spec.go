@@ -194,7 +194,7 @@ func (s *Spec) Seal() error {
 	}
 	sum := sha256.Sum256(b)
 	s.Fingerprint = "sha256:" + hex.EncodeToString(sum[:])
-	s.Tool = ToolVersion
+	s.Tool = "bowline " + ToolVersion
 	return nil
 }
 

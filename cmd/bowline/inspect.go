@@ -39,7 +39,7 @@ func writeInspect(w io.Writer, s *spec.Spec, top int) {
 	if s.Parent != "" {
 		fmt.Fprintf(w, "parent       %s\n", s.Parent)
 	}
-	fmt.Fprintf(w, "written by   bowline %s (schema %d)\n", s.Tool, spec.SchemaVersion)
+	fmt.Fprintf(w, "written by   %s (schema %d)\n", s.Tool, spec.SchemaVersion)
 	fmt.Fprintf(w, "mode         %s\n", ct.Mode)
 	fmt.Fprintf(w, "columns      %d\n", s.Columns())
 	fmt.Fprintf(w, "trained on   %d documents\n", ct.Docs)
