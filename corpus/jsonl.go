@@ -1,7 +1,6 @@
 package corpus
 
 import (
-	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -224,12 +223,14 @@ func skipSpace(b []byte, i int) int {
 func skipString(b []byte, i int) int {
 	i++
 	for {
-		j := bytes.IndexAny(b[i:], "\"\\")
-		i += j
-		if b[i] == '"' {
+		switch b[i] {
+		case '"':
 			return i + 1
+		case '\\':
+			i += 2 // the backslash and the byte after it
+		default:
+			i++
 		}
-		i += 2 // escape: skip the backslash and the byte after it
 	}
 }
 
