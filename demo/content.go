@@ -318,10 +318,13 @@ var moods = [2][]string{
 // asides lead into a remark about another team's matter.
 var asides = []string{"Also, ", "By the way, ", "On another note, ", "Separately, ", "And ", "Oh, and "}
 
-var closers = [3][]string{
+// closers[0..2] end positive, negative and neutral messages; closers[3]
+// are the polite thanks that also end many complaints.
+var closers = [4][]string{
 	{"Thanks!", "Great service.", "Keep it up.", "Five stars from me.", "Would recommend.", "Much appreciated.", "Brilliant."},
 	{"Please fix this.", "Very disappointed.", "This is the third time.", "Sort it out please.", "Not good enough.", "Fed up.", "I want an answer."},
 	{"Thanks.", "Thanks in advance.", "Regards.", "Cheers.", "Let me know.", "Best wishes."},
+	{"Thanks!", "Much appreciated.", "Thank you!"},
 }
 
 var emoji = [3][]string{

@@ -1,12 +1,5 @@
 // Package demo generates bowline's invented Pellwick Bike Share corpus of
 // rider reviews and support tickets.
-//
-// Pellwick Bike Share is a made-up city bike-share operator. Every station,
-// street, ticket number, amount and sentence in the corpus is produced here
-// from templates and a seeded random source; nothing is copied from real
-// reviews or tickets, and any resemblance to real places, people or
-// companies is coincidental. The corpus is generated, not stored: the same
-// Options give byte-identical output on every machine.
 package demo
 
 import (
@@ -21,6 +14,11 @@ import (
 )
 
 // Notice is the one-line statement shown wherever the demo corpus is used.
+//
+// Pellwick Bike Share is a made-up city bike-share operator. Every station,
+// street, ticket number, amount and sentence in the corpus is produced by
+// this package from templates and a seeded random source; nothing is
+// copied from real reviews or tickets.
 const Notice = "The Pellwick Bike Share corpus is invented: Pellwick Bike Share is a made-up bike-share operator, " +
 	"and its stations, streets, tickets and texts are generated; any resemblance to real places, people or companies is coincidental."
 
@@ -219,10 +217,9 @@ func (g *generator) text(ticket bool, team, sent int) string {
 		case 1:
 			c = 2
 		case 2:
+			c = 2
 			if sent == 1 {
-				c = 0
-			} else {
-				c = 2
+				c = 3
 			}
 		}
 		parts = append(parts, g.pick(closers[c]))
@@ -242,7 +239,11 @@ func (g *generator) long(ticket bool, team, sent int) string {
 	if ticket {
 		parts = append(parts, g.fill(g.pick(ticketOpeners)))
 	}
-	parts = append(parts, g.fill(g.pick(reviewOpeners)))
+	t := g.pick(reviewOpeners)
+	if afterComma(parts) {
+		t = lowerFirst(t)
+	}
+	parts = append(parts, g.fill(t))
 	for words(parts) < 120+g.r.IntN(140) {
 		switch g.weighted(0.55, 0.25, 0.1, 0.1) {
 		case 0:
@@ -250,7 +251,11 @@ func (g *generator) long(ticket bool, team, sent int) string {
 		case 1:
 			parts = append(parts, g.fill(g.pick(context)))
 		case 2:
-			parts = append(parts, g.fill(g.pick(moods[max(sent, 1)%2])))
+			if sent < 2 {
+				parts = append(parts, g.pick(moods[sent]))
+			} else {
+				parts = append(parts, g.fill(g.pick(vague[2])))
+			}
 		default:
 			parts = append(parts, g.pick(asides)+g.core(parts, g.r.IntN(len(teams)), 2, true))
 		}
