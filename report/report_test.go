@@ -275,6 +275,9 @@ func TestTextSections(t *testing.T) {
 	if !strings.Contains(odd, "  invalid UTF-8  2 bytes replaced by U+FFFD\n") || !strings.Contains(odd, "  NUL bytes      1 read as spaces\n") {
 		t.Errorf("invalid input counts missing:\n%s", odd)
 	}
+	if got := text(t, &Figures{Command: "learn"}); strings.Contains(got, " \n") {
+		t.Errorf("trailing spaces in %q", got)
+	}
 	if got := text(t, &Figures{}); got != "" {
 		t.Errorf("empty figures give %q, want nothing", got)
 	}

@@ -81,7 +81,7 @@ func (f *Figures) runSection() section {
 		return s
 	}
 	add("docs", itoa(f.Docs))
-	add("empty docs", itoa(f.EmptyDocs)+"  "+share(f.EmptyDocs, f.Docs))
+	add("empty docs", join(itoa(f.EmptyDocs), share(f.EmptyDocs, f.Docs)))
 	add("tokens", itoa(f.Tokens))
 	if f.StopDropped != 0 || len(f.TopStopWords) > 0 {
 		v := itoa(f.StopDropped) + "  " + pct(f.StopShare)
@@ -174,7 +174,7 @@ func (f *Figures) vocabSection() section {
 	s := section{Title: "vocabulary"}
 	s.Pairs = []pair{
 		{"keys seen", itoa(v.Seen)},
-		{"kept", itoa(v.Kept) + "  " + share(v.Kept, v.Seen)},
+		{"kept", join(itoa(v.Kept), share(v.Kept, v.Seen))},
 		{"cut by --min-docs", itoa(v.BelowMinDocs)},
 		{"cut by --max-doc-share", itoa(v.AboveMaxShare)},
 		{"cut by --max-terms", itoa(v.OverMaxTerms)},
@@ -237,6 +237,17 @@ const caution = "Caution: a vocabulary memorizes strings from the training text.
 	"Specs, feature maps and reports made from tickets or reviews can carry personal data " +
 	"(e-mail addresses, names, phone and order numbers) and must be handled like the text itself. " +
 	"--min-docs 2 or more drops most one-off strings; hashing mode stores no strings at all."
+
+// join joins the non-empty values with two spaces.
+func join(vs ...string) string {
+	out := vs[:0:0]
+	for _, v := range vs {
+		if v != "" {
+			out = append(out, v)
+		}
+	}
+	return strings.Join(out, "  ")
+}
 
 func itoa(n int64) string { return strconv.FormatInt(n, 10) }
 
