@@ -69,7 +69,8 @@ func NewStemmer(lang string) (*Stemmer, error) {
 func (s *Stemmer) Language() string { return s.lang.code }
 
 // Stem returns the Snowball stem of tok. Stop words are stemmed like any
-// other word, as the Snowball reference implementation does.
+// other word, as the Snowball reference implementation does. For Russian,
+// "ё" is read as "е" first, as Snowball 2.x does.
 //
 // The result belongs to the Stemmer and must not be modified. The Stemmer
 // never writes to a slice it has returned, so the result stays valid for as
@@ -83,7 +84,13 @@ func (s *Stemmer) Stem(tok []byte) []byte {
 	if len(s.cache) >= s.limit {
 		clear(s.cache)
 	}
-	st := []byte(s.lang.stem(string(tok), true))
+	w := string(tok)
+	if s.lang.code == "ru" && strings.Contains(w, "ё") {
+		// Snowball 2.x treats ё as е before stemming Russian;
+		// kljensen/snowball v0.10.0 does not.
+		w = strings.ReplaceAll(w, "ё", "е")
+	}
+	st := []byte(s.lang.stem(w, true))
 	s.cache[string(tok)] = st
 	return st
 }
