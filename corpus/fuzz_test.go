@@ -50,7 +50,10 @@ func FuzzReaders(f *testing.F) {
 		r, err := NewReader(bytes.NewReader(data), "fuzz", o)
 		if err != nil {
 			var pe *ParseError
-			if !errors.As(err, &pe) && !strings.Contains(err.Error(), "empty file, expected a header row") {
+			// Besides a bad header row, a header may be empty or name
+			// the field "1" twice.
+			if !errors.As(err, &pe) && !strings.Contains(err.Error(), "empty file, expected a header row") &&
+				!strings.Contains(err.Error(), `field "1" is ambiguous`) {
 				t.Fatalf("NewReader: unexpected error %v", err)
 			}
 			return
