@@ -112,7 +112,14 @@ func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *repo
 		labels = append(labels, k)
 	}
 	sort.Strings(labels)
-	s, cut, err := l.Finish(merged, spec.LabelsFrom(labels, hasLabel))
+	lab := spec.LabelsFrom(labels, hasLabel)
+	if hasLabel {
+		lab.Values = labels
+		for _, k := range labels {
+			lab.Counts = append(lab.Counts, labelCount[k])
+		}
+	}
+	s, cut, err := l.Finish(merged, lab)
 	if err != nil {
 		return nil, nil, err
 	}

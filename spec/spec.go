@@ -154,6 +154,11 @@ type Labels struct {
 	// Map lists string labels sorted by bytes; label Map[i] is written as
 	// i+1 (0 is the label of unlabeled rows).
 	Map []string `json:"map,omitempty"`
+	// Values and Counts are the distinct training label values (sorted
+	// by bytes) and how many training documents carried each: the
+	// reference for label drift.
+	Values []string `json:"values,omitempty"`
+	Counts []int64  `json:"counts,omitempty"`
 }
 
 // Columns is the number of columns of the rows the spec produces.
