@@ -46,9 +46,9 @@ gen() {
 }
 
 gen en english /usr/share/dict/american-english wamerican 1 UTF-8
-gen es spanish /usr/share/dict/spanish wspanish 1 UTF-8
-gen fr french /usr/share/dict/french wfrench 4 UTF-8
-gen sv swedish /usr/share/dict/swedish wswedish 1 ISO-8859-1
-gen no norwegian /usr/share/dict/bokmaal wnorwegian 10 ISO-8859-1
-gen ru russian /usr/share/hunspell/ru_RU.dic hunspell-ru 1 UTF-8
-gen hu hungarian /usr/share/hunspell/hu_HU.dic hunspell-hu 1 UTF-8
+gen es spanish /usr/share/dict/spanish wspanish 2 UTF-8
+gen fr french /usr/share/dict/french wfrench 8 UTF-8
+gen sv swedish /usr/share/dict/swedish wswedish 3 ISO-8859-1
+gen no norwegian /usr/share/dict/bokmaal wnorwegian 20 ISO-8859-1
+gen ru russian /usr/share/hunspell/ru_RU.dic hunspell-ru 4 UTF-8
+gen hu hungarian /usr/share/hunspell/hu_HU.dic hunspell-hu 2 UTF-8
