@@ -150,19 +150,27 @@ func (f *inputFlags) options(path string, def *spec.Input, set map[string]bool) 
 			o.NoHeader = def.NoHeader
 		}
 	}
-	if len(o.Text) == 0 {
-		if o.Format == corpus.Lines {
-			o.Text = []string{"1"}
-		} else {
-			o.Text = []string{"text"}
-		}
-	}
 	if o.Format == corpus.Lines {
-		if o.Label != "" || o.ID != "" {
-			return o, usagef("--label and --id need a tsv, csv or jsonl corpus; lines format has one text per line")
+		if o.Label != "" || o.ID != "" || len(f.text) > 0 {
+			return o, usagef("--text, --label and --id need a tsv, csv or jsonl corpus; lines format has one text per line")
 		}
+		o.Text, o.Label, o.ID = nil, "", ""
+		return o, nil
+	}
+	if len(o.Text) == 0 || (def != nil && def.Format == "lines" && len(f.text) == 0) {
+		o.Text = []string{"text"}
 	}
 	return o, nil
+}
+
+// specInput records the corpus options in a spec; a lines corpus has one
+// text field called "line".
+func specInput(o corpus.Options) spec.Input {
+	in := spec.Input{Format: o.Format.String(), Text: o.Text, Label: o.Label, ID: o.ID, NoHeader: o.NoHeader}
+	if o.Format == corpus.Lines {
+		in.Text = []string{"line"}
+	}
+	return in
 }
 
 func asUsage(err error) error {

@@ -58,7 +58,7 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	st, err := an.settings(spec.Input{Format: copts.Format.String(), Text: copts.Text, Label: copts.Label, ID: copts.ID, NoHeader: copts.NoHeader}, c.set)
+	st, err := an.settings(specInput(copts), c.set)
 	if err != nil {
 		return err
 	}
@@ -197,8 +197,8 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if len(copts.Text) != len(s.Content.Input.Text) {
-		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), len(copts.Text))
+	if n := len(specInput(copts).Text); n != len(s.Content.Input.Text) {
+		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}
 	r, err := corpus.Open(path, copts)
 	if err != nil {
