@@ -51,7 +51,7 @@ func (f *Figures) sections() []section {
 	if f.Collisions != nil {
 		out = append(out, f.collisionSection())
 	}
-	if s := f.Sparsity; s.Rows != 0 || s.Columns != 0 || s.NNZ != 0 {
+	if s := f.Sparsity; s.Rows != 0 || s.NNZ != 0 {
 		out = append(out, f.sparsitySection())
 	}
 	if f.Vocabulary != nil {
