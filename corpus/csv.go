@@ -1,6 +1,7 @@
 package corpus
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -8,7 +9,9 @@ import (
 )
 
 func (r *Reader) nextCSV() error {
+	r.csvStart = r.cr.InputOffset()
 	row, err := r.cr.Read()
+	r.raw = r.tape.record(r.csvStart, r.cr.InputOffset())
 	if err != nil {
 		return r.csvError(err, row)
 	}
@@ -73,4 +76,43 @@ func (r *Reader) csvError(err error, row []string) error {
 		Column: r.column(int64(pe.Line), pe.Column),
 		Err:    e,
 	}
+}
+
+// csvTape records the bytes encoding/csv reads, so that a record can be
+// returned as stored (for rejects). Bytes before the current record are
+// dropped now and then.
+type csvTape struct {
+	r    io.Reader
+	buf  []byte
+	base int64 // input offset of buf[0]
+}
+
+func (t *csvTape) Read(p []byte) (int, error) {
+	n, err := t.r.Read(p)
+	t.buf = append(t.buf, p[:n]...)
+	return n, err
+}
+
+// record returns the bytes from offset start to end without a final line
+// break, and forgets what lies before start when that is a lot.
+func (t *csvTape) record(start, end int64) []byte {
+	if drop := start - t.base; drop > 1<<16 {
+		n := copy(t.buf, t.buf[drop:])
+		t.buf = t.buf[:n]
+		t.base = start
+	}
+	lo, hi := start-t.base, end-t.base
+	if lo < 0 {
+		lo = 0
+	}
+	if hi > int64(len(t.buf)) {
+		hi = int64(len(t.buf))
+	}
+	if hi < lo {
+		hi = lo
+	}
+	b := t.buf[lo:hi]
+	b = bytes.TrimSuffix(b, []byte("\n"))
+	b = bytes.TrimSuffix(b, []byte("\r"))
+	return b
 }

@@ -11,6 +11,7 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // Options says how to read a corpus file and which fields to take.
@@ -30,6 +31,10 @@ type Options struct {
 	// NoHeader says a TSV or CSV file has no header row: its first row is
 	// data and fields must be column numbers. Other formats ignore it.
 	NoHeader bool
+	// StrictUTF8 makes invalid UTF-8 and NUL bytes anywhere in a record
+	// a *ParseError at the first such byte. By default they are left to
+	// the tokenizer, which replaces and counts them.
+	StrictUTF8 bool
 }
 
 // A Record is one document.
@@ -78,6 +83,12 @@ type Reader struct {
 	n       int64
 	err     error
 	done    bool
+
+	raw       []byte   // the current (or failed) record as stored in the file
+	rawBuf    []byte   // copy of raw when decoding would change it in place
+	skippable bool     // err concerns one record; Skip may go past it
+	tape      *csvTape // CSV: the bytes csv.Reader consumed, for raw records
+	csvStart  int64    // CSV: input offset where the current record starts
 }
 
 type countingReader struct {
@@ -230,7 +241,8 @@ func checkOptions(o Options) error {
 // resolves the wanted fields to columns.
 func (r *Reader) openTable() error {
 	if r.opt.Format == CSV {
-		r.cr = csv.NewReader(r.br)
+		r.tape = &csvTape{r: r.br}
+		r.cr = csv.NewReader(r.tape)
 		r.cr.ReuseRecord = true
 	}
 	if !r.opt.NoHeader {
@@ -360,15 +372,73 @@ func (r *Reader) Scan() bool {
 		return false
 	}
 	err := r.next()
+	if err == nil && r.opt.StrictUTF8 {
+		err = r.checkStrict()
+	}
 	if err != nil {
 		r.done = true
 		if err != io.EOF {
 			r.err = err
+			var pe *ParseError
+			r.skippable = errors.As(err, &pe)
 		}
 		return false
 	}
 	r.n++
 	return true
+}
+
+// Skip goes past the record that made Scan fail with a *ParseError, so
+// that Scan can continue with the next record; [Reader.Raw] then still
+// holds the failed record's bytes. It returns false, and changes nothing,
+// when the error cannot be skipped (an input/output or gzip error, or no
+// error at all).
+func (r *Reader) Skip() bool {
+	if r.err == nil || !r.skippable {
+		return false
+	}
+	r.err, r.done, r.skippable = nil, false, false
+	return true
+}
+
+// Raw returns the current record, or the record that made Scan fail, as
+// stored in the file (after gzip decompression, without its final line
+// break). It is valid until the next call to Scan.
+func (r *Reader) Raw() []byte { return r.raw }
+
+// checkStrict reports the first invalid UTF-8 or NUL byte of the current
+// record.
+func (r *Reader) checkStrict() error {
+	raw := r.raw
+	for i := 0; i < len(raw); {
+		c := raw[i]
+		if c == 0 {
+			return r.strictError(i, "NUL byte")
+		}
+		if c < utf8.RuneSelf {
+			i++
+			continue
+		}
+		ru, size := utf8.DecodeRune(raw[i:])
+		if ru == utf8.RuneError && size == 1 {
+			return r.strictError(i, fmt.Sprintf("invalid UTF-8 byte 0x%02x", c))
+		}
+		i += size
+	}
+	return nil
+}
+
+func (r *Reader) strictError(off int, what string) error {
+	line := r.rec.Line
+	start := 0
+	for i := 0; i < off; i++ {
+		if r.raw[i] == '\n' {
+			line++
+			start = i + 1
+		}
+	}
+	return &ParseError{File: r.name, Line: line, Column: r.column(line, off-start+1),
+		Err: fmt.Errorf("%s (--strict-utf8)", what)}
 }
 
 // Record returns the most recent record. It and the bytes it refers to
@@ -471,6 +541,7 @@ func (r *Reader) readLine() ([]byte, error) {
 			line = line[:n-2]
 		}
 	}
+	r.raw = line
 	return line, nil
 }
 
