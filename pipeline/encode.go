@@ -35,6 +35,9 @@ type EncodeOptions struct {
 	Progress func(bytesRead int64)
 	// TopUnseen is how many unseen keys the figures list.
 	TopUnseen int
+	// Rejects, when not nil, takes records that cannot be read or whose
+	// label cannot be mapped, instead of ending the run (--on-error skip).
+	Rejects *Rejects
 }
 
 // Encode applies enc to every record of r and writes one SVMlight row per
@@ -62,12 +65,15 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	readerDone := make(chan struct{})
 	go func() {
 		defer close(readerDone)
-		readErr = readBatches(r, nfield, free, work, stop, func(*corpus.Record) error {
+		readErr = readBatches(r, nfield, free, work, stop, func(rec *corpus.Record) error {
 			if o.Progress != nil {
 				o.Progress(r.BytesRead())
 			}
+			if _, err := enc.Label(rec.Label, o.LabelFallback); err != nil {
+				return &RecordError{File: o.Name, Line: rec.Line, Err: err}
+			}
 			return nil
-		})
+		}, o.Rejects)
 		readBytes = r.BytesRead()
 	}()
 
@@ -163,6 +169,9 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 		Spec:    s.Fingerprint,
 		Mode:    s.Content.Mode,
 		Docs:    rows,
+	}
+	if o.Rejects != nil {
+		fig.Rejected = o.Rejects.N
 	}
 	fillTokenFigures(fig, as, dropped, ws.Features)
 	fig.EmptyDocs = st.empty

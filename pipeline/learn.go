@@ -23,6 +23,9 @@ type LearnOptions struct {
 	Progress func(bytesRead int64)
 	// TopTerms is how many top terms the figures list.
 	TopTerms int
+	// Rejects, when not nil, takes records that cannot be read or have an
+	// empty label, instead of ending the run (--on-error skip).
+	Rejects *Rejects
 }
 
 // maxLabels bounds the distinct label values a training corpus may have.
@@ -61,10 +64,10 @@ func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *repo
 			if n, ok := labelCount[string(rec.Label)]; ok || len(labelCount) < maxLabels {
 				labelCount[string(rec.Label)] = n + 1
 			} else {
-				return &RecordError{File: o.Name, Line: rec.Line, Err: fmt.Errorf("more than %d distinct labels in field %q", maxLabels, c.Input.Label)}
+				return fmt.Errorf("%s:%d: more than %d distinct labels in field %q; is it really a label?", o.Name, rec.Line, maxLabels, c.Input.Label)
 			}
 			return nil
-		})
+		}, o.Rejects)
 	}()
 
 	workers := make([]*spec.LearnWorker, nw)
@@ -139,6 +142,9 @@ func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *repo
 		}
 	}
 	fig := &report.Figures{Command: "learn", Input: o.Name, Spec: s.Fingerprint, Mode: s.Content.Mode, Docs: docs, EmptyDocs: empty}
+	if o.Rejects != nil {
+		fig.Rejected = o.Rejects.N
+	}
 	fillTokenFigures(fig, as, dropped, features)
 	fig.Features = featureTotal(merged)
 	fig.Sparsity = report.Sparsity{Columns: s.Columns(), NNZHistogram: []int64{}, Sparsity: 1}

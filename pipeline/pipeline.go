@@ -3,7 +3,9 @@
 package pipeline
 
 import (
+	"errors"
 	"fmt"
+	"io"
 	"runtime"
 
 	"github.com/bowline/bowline/corpus"
@@ -126,18 +128,66 @@ func workerCount(n int) int {
 	return n
 }
 
+// Rejects collects the records skipped under --on-error skip.
+type Rejects struct {
+	// W receives each skipped record as stored in the file, one per line.
+	W io.Writer
+	// N counts skipped records.
+	N int64
+	// Errors holds the first few error messages.
+	Errors []string
+}
+
+// MaxRejectErrors is how many error messages Rejects keeps.
+const MaxRejectErrors = 10
+
+func (rj *Rejects) add(err error, raw []byte) error {
+	rj.N++
+	if len(rj.Errors) < MaxRejectErrors {
+		rj.Errors = append(rj.Errors, err.Error())
+	}
+	if _, werr := rj.W.Write(raw); werr != nil {
+		return werr
+	}
+	_, werr := rj.W.Write([]byte{'\n'})
+	return werr
+}
+
 // readBatches reads r into batches sent on out, taking empty batches from
-// free; it closes out when done and returns the reader's error.
-func readBatches(r *corpus.Reader, nfield int, free chan *batch, out chan<- *batch, stop <-chan struct{}, onRecord func(*corpus.Record) error) error {
+// free; it closes out when done and returns the reader's error. With rj,
+// records that cannot be read, or that onRecord refuses with a
+// *RecordError, are skipped into rj instead of ending the run.
+func readBatches(r *corpus.Reader, nfield int, free chan *batch, out chan<- *batch, stop <-chan struct{}, onRecord func(*corpus.Record) error, rj *Rejects) error {
 	defer close(out)
 	seq := 0
 	b := <-free
 	b.reset(seq, nfield)
-	for r.Scan() {
+	for {
+		if !r.Scan() {
+			err := r.Err()
+			if err == nil {
+				break
+			}
+			raw := r.Raw()
+			if rj == nil || !r.Skip() {
+				return err
+			}
+			if werr := rj.add(err, raw); werr != nil {
+				return werr
+			}
+			continue
+		}
 		rec := r.Record()
 		if onRecord != nil {
 			if err := onRecord(rec); err != nil {
-				return err
+				var re *RecordError
+				if rj == nil || !errors.As(err, &re) {
+					return err
+				}
+				if werr := rj.add(err, r.Raw()); werr != nil {
+					return werr
+				}
+				continue
 			}
 		}
 		b.add(rec)
@@ -156,9 +206,6 @@ func readBatches(r *corpus.Reader, nfield int, free chan *batch, out chan<- *bat
 			}
 			b.reset(seq, nfield)
 		}
-	}
-	if err := r.Err(); err != nil {
-		return err
 	}
 	if len(b.lines) > 0 {
 		b.seal()

@@ -15,6 +15,9 @@ type Figures struct {
 	Mode string `json:"mode"`
 	// Docs is the number of records read (one row each).
 	Docs int64 `json:"docs"`
+	// Rejected counts records skipped under --on-error skip (written to
+	// the rejects file); Docs + Rejected is the number of records read.
+	Rejected int64 `json:"rejected"`
 	// EmptyDocs counts documents that produced no feature at all.
 	EmptyDocs int64 `json:"empty_docs"`
 	// Tokens counts tokens produced by the tokenizer, before stop words.

@@ -82,6 +82,9 @@ func (f *Figures) runSection() section {
 	}
 	add("docs", itoa(f.Docs))
 	add("empty docs", join(itoa(f.EmptyDocs), share(f.EmptyDocs, f.Docs)))
+	if f.Rejected != 0 {
+		add("rejected", itoa(f.Rejected)+" records skipped (--on-error skip), kept in the rejects file")
+	}
 	add("tokens", itoa(f.Tokens))
 	if f.StopDropped != 0 || len(f.TopStopWords) > 0 {
 		v := itoa(f.StopDropped) + "  " + pct(f.StopShare)

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bufio"
 	"errors"
 	"flag"
 	"fmt"
@@ -11,9 +12,11 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
 	"github.com/bowline/bowline/tokenize"
@@ -105,9 +108,11 @@ type inputFlags struct {
 	label    string
 	id       string
 	noHeader bool
+	strict   bool
 }
 
 func (f *inputFlags) register(fs *flag.FlagSet) {
+	fs.BoolVar(&f.strict, "strict-utf8", false, "invalid UTF-8 and NUL bytes are errors (default: replaced and counted)")
 	fs.StringVar(&f.format, "format", "", "corpus format lines|tsv|csv|jsonl (default: by file extension)")
 	fs.Var(&f.text, "text", "text field by header name or 1-based column number (repeatable; default \"text\")")
 	fs.StringVar(&f.label, "label", "", "label field")
@@ -136,6 +141,7 @@ func (f *inputFlags) options(path string, def *spec.Input, set map[string]bool) 
 	}
 	o.Text = f.text
 	o.Label, o.ID, o.NoHeader = f.label, f.id, f.noHeader
+	o.StrictUTF8 = f.strict
 	if def != nil {
 		if len(o.Text) == 0 {
 			o.Text = def.Text
@@ -380,4 +386,91 @@ func parseFloatFlag(name, s string) (*float64, error) {
 		return nil, usagef("--%s: %q is not a number", name, s)
 	}
 	return &v, nil
+}
+
+// errorFlags choose what happens to records that cannot be read.
+type errorFlags struct {
+	onError string
+	rejects string
+}
+
+func (f *errorFlags) register(fs *flag.FlagSet) {
+	fs.StringVar(&f.onError, "on-error", "stop", "a record that cannot be read: stop (exit 3) or skip (into --rejects)")
+	fs.StringVar(&f.rejects, "rejects", "", "with --on-error skip: write each skipped record, as read, to FILE")
+}
+
+func (f *errorFlags) check() error {
+	switch f.onError {
+	case "stop":
+		if f.rejects != "" {
+			return usagef("--rejects needs --on-error skip")
+		}
+	case "skip":
+		if f.rejects == "" {
+			return usagef("--on-error skip needs --rejects FILE, so that no skipped record is lost")
+		}
+	default:
+		return usagef("--on-error: %q is not stop or skip", f.onError)
+	}
+	return nil
+}
+
+// open starts the rejects file (nil, nil without --on-error skip).
+func (f *errorFlags) open() (*rejectsFile, error) {
+	if f.onError != "skip" {
+		return nil, nil
+	}
+	af, err := atomicfile.Create(f.rejects)
+	if err != nil {
+		return nil, &ioError{err}
+	}
+	bw := bufio.NewWriter(af)
+	return &rejectsFile{file: af, buf: bw, Rejects: &pipeline.Rejects{W: bw}}, nil
+}
+
+// rejectsFile is the rejects output of a run.
+type rejectsFile struct {
+	file *atomicfile.File
+	buf  *bufio.Writer
+	*pipeline.Rejects
+}
+
+func (r *rejectsFile) rejects() *pipeline.Rejects {
+	if r == nil {
+		return nil
+	}
+	return r.Rejects
+}
+
+func (r *rejectsFile) abort() {
+	if r != nil {
+		r.file.Abort()
+	}
+}
+
+// commit puts the rejects file in place.
+func (r *rejectsFile) commit(stderr io.Writer) error {
+	if r == nil {
+		return nil
+	}
+	if err := r.buf.Flush(); err != nil {
+		return &ioError{err}
+	}
+	if err := r.file.Commit(); err != nil {
+		return &ioError{err}
+	}
+	return nil
+}
+
+// summary says what was skipped.
+func (r *rejectsFile) summary(stderr io.Writer) {
+	if r == nil {
+		return
+	}
+	if r.N > 0 {
+		fmt.Fprintf(stderr, "\n%d records skipped, written to %s; first errors:\n", r.N, r.file.Path)
+		for _, e := range r.Errors {
+			fmt.Fprintf(stderr, "  %s\n", e)
+		}
+	}
 }
