@@ -76,6 +76,8 @@ type Tokenizer struct {
 
 	iter norm.Iter // normalization state for appendForm
 
+	noFastPath bool // tests: segment everything with the segmenter
+
 	stats Stats
 }
 
@@ -131,7 +133,7 @@ func (t *Tokenizer) Each(text []byte, fn func(tok []byte, kind Kind)) {
 		if n > chunkSize {
 			n = splitPoint(data, chunkSize)
 		}
-		t.segment(data[:n], fn)
+		t.segmentFast(data[:n], fn)
 		data = data[n:]
 	}
 }

@@ -1,0 +1,125 @@
+package tokenize
+
+import (
+	"unicode/utf8"
+
+	"github.com/blevesearch/segment"
+)
+
+// segmentFast splits data into stretches of ASCII text, which it segments
+// itself (segmentASCII), and the rest, which goes to the segmenter. A
+// stretch ends only where UAX #29 always has a boundary (see splitPoint):
+// just after a line feed, or just after a space followed by an ASCII
+// character, so no word can reach across it.
+func (t *Tokenizer) segmentFast(data []byte, fn func([]byte, Kind)) {
+	if t.noFastPath {
+		t.segment(data, fn)
+		return
+	}
+	for len(data) > 0 {
+		// ASCII prefix [0, q).
+		q := 0
+		for q < len(data) && data[q] < utf8.RuneSelf {
+			q++
+		}
+		if q == len(data) {
+			t.segmentASCII(data, fn)
+			return
+		}
+		// Last safe cut at or before q: the ASCII text before it is
+		// done here.
+		c := q
+		for c > 0 && !safeCut(data, c) {
+			c--
+		}
+		if c > 0 {
+			t.segmentASCII(data[:c], fn)
+			data = data[c:]
+			q -= c
+		}
+		// First safe cut after the non-ASCII byte at q: the text up to
+		// it goes to the segmenter.
+		e := q + 1
+		for e < len(data) && !safeCut(data, e) {
+			e++
+		}
+		t.segment(data[:e], fn)
+		data = data[e:]
+	}
+}
+
+// safeCut reports whether UAX #29 always puts a word boundary at i, 0 < i <
+// len(data): after a line feed (WB3a), or after a space followed by an
+// ASCII character (WB14; WB4 joins only Extend and Format characters, never
+// ASCII, to a preceding space).
+func safeCut(data []byte, i int) bool {
+	c := data[i-1]
+	return c == '\n' || c == ' ' && data[i] < utf8.RuneSelf
+}
+
+// asciiClass holds the UAX #29 word break classes of ASCII characters as the
+// segmenter (Unicode 8.0) has them.
+var asciiClass = func() (c [128]uint8) {
+	for b := 'a'; b <= 'z'; b++ {
+		c[b] = clLetter
+		c[b-'a'+'A'] = clLetter
+	}
+	for b := '0'; b <= '9'; b++ {
+		c[b] = clDigit
+	}
+	c['_'] = clExtendNumLet
+	c[':'] = clMidLetter                // MidLetter
+	c[','], c[';'] = clMidNum, clMidNum // MidNum
+	c['.'] = clMidLetter | clMidNum     // MidNumLet
+	c['\''] = clMidLetter | clMidNum    // Single_Quote
+	return c
+}()
+
+const (
+	clLetter = 1 << iota
+	clDigit
+	clExtendNumLet
+	clMidLetter
+	clMidNum
+	clWord = clLetter | clDigit | clExtendNumLet
+)
+
+// segmentASCII emits the words of ASCII text exactly as the segmenter would:
+// letters, digits and underscores join (WB5, WB8, WB9, WB10, WB13a, WB13b);
+// a MidLetter, MidNumLet or Single_Quote character joins two letters (WB6,
+// WB7); a MidNum, MidNumLet or Single_Quote character joins two digits (WB11,
+// WB12). A word without letters but with a digit is a Number, any other a
+// Letter word (so a run of underscores is a Letter word, as the segmenter
+// types it).
+func (t *Tokenizer) segmentASCII(d []byte, fn func([]byte, Kind)) {
+	n := len(d)
+	for i := 0; i < n; {
+		if asciiClass[d[i]]&clWord == 0 {
+			i++
+			continue
+		}
+		start := i
+		var seen uint8
+		for {
+			for i < n && asciiClass[d[i]]&clWord != 0 {
+				seen |= asciiClass[d[i]]
+				i++
+			}
+			if i+1 >= n {
+				break
+			}
+			mid, prev, next := asciiClass[d[i]], asciiClass[d[i-1]], asciiClass[d[i+1]]
+			if mid&clMidLetter != 0 && prev == clLetter && next == clLetter ||
+				mid&clMidNum != 0 && prev == clDigit && next == clDigit {
+				i++
+				continue
+			}
+			break
+		}
+		typ := segment.Letter
+		if seen&clLetter == 0 && seen&clDigit != 0 {
+			typ = segment.Number
+		}
+		t.emit(d[start:i], typ, fn)
+	}
+}
