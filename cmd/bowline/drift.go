@@ -1,0 +1,84 @@
+package main
+
+import (
+	"io"
+	"strings"
+
+	"github.com/bowline/bowline/atomicfile"
+	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/drift"
+	"github.com/bowline/bowline/report"
+	"github.com/bowline/bowline/spec"
+)
+
+func init() {
+	register("drift", "compare a new corpus with a spec: OOV shares, unseen terms, frequency shifts", runDrift)
+}
+
+func runDrift(args []string, stdout, stderr io.Writer) error {
+	c := newCommand("drift", "--spec SPEC CORPUS [flags]", "Compares a new corpus with a spec: OOV shares per n-gram order, the top unseen keys, the keys whose\ndocument share moved most, a divergence per order (Jensen–Shannon and PSI) and the label shift.\nThe figures go to standard output.")
+	var in inputFlags
+	var rf runFlags
+	var specPath, reportPath string
+	var top int
+	in.register(c.fs)
+	rf.register(c.fs)
+	c.fs.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	c.fs.IntVar(&top, "top", drift.DefaultTop, "how many unseen and moved keys to list")
+	c.fs.StringVar(&reportPath, "report", "", "also write the figures to FILE.json or FILE.html")
+	if err := c.parse(args); err != nil {
+		return err
+	}
+	if specPath == "" {
+		return usagef("bowline drift needs --spec SPEC, written by bowline learn")
+	}
+	if len(c.pos) != 1 {
+		return usagef("bowline drift needs one corpus file (got %d); see bowline drift --help", len(c.pos))
+	}
+	if top < 1 {
+		return usagef("--top: %d is not a positive number", top)
+	}
+	if err := rf.check(); err != nil {
+		return err
+	}
+	if err := checkReportPath(reportPath); err != nil {
+		return err
+	}
+	s, err := spec.Load(specPath)
+	if err != nil {
+		return err
+	}
+	path := c.pos[0]
+	copts, err := in.options(path, &s.Content.Input, c.set)
+	if err != nil {
+		return err
+	}
+	if n := len(specInput(copts).Text); n != len(s.Content.Input.Text) {
+		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
+	}
+	r, err := corpus.Open(path, copts)
+	if err != nil {
+		return err
+	}
+	defer r.Close()
+	bar := newProgress(rf.progress, r.Size(), stderr, "drift")
+	res, err := drift.Compare(s, r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: bar.set})
+	bar.finish()
+	if err != nil {
+		return err
+	}
+	if err := res.WriteText(stdout); err != nil {
+		return &ioError{err}
+	}
+	if reportPath == "" {
+		return nil
+	}
+	format, err := report.FormatFromPath(reportPath)
+	if err != nil {
+		return usagef("--report: %v", err)
+	}
+	if err := atomicfile.WriteFile(reportPath, func(w io.Writer) error { return res.Write(w, format) }); err != nil {
+		return &ioError{err}
+	}
+	return nil
+}
