@@ -130,3 +130,51 @@ func TestStemsGolden(t *testing.T) {
 		})
 	}
 }
+
+func TestNewStemmer(t *testing.T) {
+	if got := strings.Join(StemLanguages(), " "); got != "en es fr hu no ru sv" {
+		t.Errorf("StemLanguages() = %q", got)
+	}
+	for in, want := range map[string]string{"en": "en", "english": "en", "English": "en", " SV ": "sv", "norwegian": "no", "ru": "ru"} {
+		st, err := NewStemmer(in)
+		if err != nil || st.Language() != want {
+			t.Errorf("NewStemmer(%q) = %v, %v; want language %q", in, st, err, want)
+		}
+	}
+	_, err := NewStemmer("german")
+	if err == nil || !strings.Contains(err.Error(), `"german"`) || !strings.Contains(err.Error(), "en, es, fr, hu, no, ru, sv") {
+		t.Errorf("NewStemmer(german) error = %v", err)
+	}
+}
+
+// TestStemCache checks that a cached stem costs no allocation, that the
+// cache stays bounded, and that results stay valid after it is emptied.
+func TestStemCache(t *testing.T) {
+	st, err := NewStemmer("en")
+	if err != nil {
+		t.Fatal(err)
+	}
+	word := []byte("connections")
+	first := st.Stem(word)
+	if string(first) != "connect" { // Snowball English (stemwords 2.2.0 gives the same)
+		t.Fatalf("Stem(connections) = %q", first)
+	}
+	if a := testing.AllocsPerRun(100, func() { st.Stem(word) }); a != 0 {
+		t.Errorf("cached Stem allocates %v times", a)
+	}
+	st.limit = 10
+	for i := 0; i < 35; i++ {
+		st.Stem([]byte(fmt.Sprintf("riders%d", i)))
+		if len(st.cache) > st.limit {
+			t.Fatalf("cache holds %d words, limit %d", len(st.cache), st.limit)
+		}
+	}
+	if string(first) != "connect" {
+		t.Errorf("earlier result changed to %q after the cache was emptied", first)
+	}
+	// Russian: ё is read as е (Snowball 2.x); stemwords 2.2.0 gives "актер".
+	ru, _ := NewStemmer("ru")
+	if got := string(ru.Stem([]byte("актёр"))); got != "актер" {
+		t.Errorf("Stem(актёр) = %q, want актер", got)
+	}
+}
