@@ -216,31 +216,9 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 	if top <= 0 {
 		top = DefaultTop
 	}
-	sh := &shared{}
-	switch c.Mode {
-	case spec.ModeVocabulary:
-		v := c.Vocabulary
-		if v == nil {
-			return nil, errors.New("drift: vocabulary mode without a vocabulary")
-		}
-		terms := make([]vocab.Term, len(v.Keys))
-		for i, k := range v.Keys {
-			terms[i] = vocab.Term{Key: k, Order: v.Orders[i], Docs: v.DocCounts[i]}
-		}
-		if sh.vocab, err = vocab.New(terms); err != nil {
-			return nil, fmt.Errorf("drift: %w", err)
-		}
-	case spec.ModeHashing:
-		h := c.Hashing
-		if h == nil {
-			return nil, errors.New("drift: hashing mode without hashing settings")
-		}
-		if sh.hasher, err = hashing.New(h.Width, h.Seed, false); err != nil {
-			return nil, fmt.Errorf("drift: %w", err)
-		}
-		sh.trainBuckets, sh.trainOK = trainingBuckets(c)
-	default:
-		return nil, fmt.Errorf("drift: unknown mode %q", c.Mode)
+	sh, err := newShared(c)
+	if err != nil {
+		return nil, err
 	}
 
 	nw := o.Workers
@@ -340,6 +318,37 @@ type shared struct {
 	hasher       *hashing.Hasher
 	trainBuckets map[uint64]int64
 	trainOK      bool
+}
+
+func newShared(c *spec.Content) (*shared, error) {
+	sh := &shared{}
+	var err error
+	switch c.Mode {
+	case spec.ModeVocabulary:
+		v := c.Vocabulary
+		if v == nil {
+			return nil, errors.New("drift: vocabulary mode without a vocabulary")
+		}
+		terms := make([]vocab.Term, len(v.Keys))
+		for i, k := range v.Keys {
+			terms[i] = vocab.Term{Key: k, Order: v.Orders[i], Docs: v.DocCounts[i]}
+		}
+		if sh.vocab, err = vocab.New(terms); err != nil {
+			return nil, fmt.Errorf("drift: %w", err)
+		}
+	case spec.ModeHashing:
+		h := c.Hashing
+		if h == nil {
+			return nil, errors.New("drift: hashing mode without hashing settings")
+		}
+		if sh.hasher, err = hashing.New(h.Width, h.Seed, false); err != nil {
+			return nil, fmt.Errorf("drift: %w", err)
+		}
+		sh.trainBuckets, sh.trainOK = trainingBuckets(c)
+	default:
+		return nil, fmt.Errorf("drift: unknown mode %q", c.Mode)
+	}
+	return sh, nil
 }
 
 // batch holds copies of records' text fields for a worker.
