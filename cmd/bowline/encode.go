@@ -6,7 +6,6 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/atomicfile"
-	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 )
@@ -72,7 +71,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if n := len(specInput(copts).Text); n != len(s.Content.Input.Text) {
 		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}
-	r, err := corpus.Open(path, copts)
+	r, err := openCorpus(path, copts)
 	if err != nil {
 		return err
 	}

@@ -474,3 +474,24 @@ func (r *rejectsFile) summary(stderr io.Writer) {
 		}
 	}
 }
+
+// openCorpus opens a corpus and classifies a failure: a file that cannot be
+// read is an I/O error (exit 4), a damaged first record bad data (exit 3),
+// and a field the file does not have a command-line mistake (exit 2).
+func openCorpus(path string, o corpus.Options) (*corpus.Reader, error) {
+	r, err := corpus.Open(path, o)
+	if err == nil {
+		return r, nil
+	}
+	var pe *corpus.ParseError
+	var pathErr *os.PathError
+	switch {
+	case errors.As(err, &pe):
+		return nil, err
+	case errors.As(err, &pathErr):
+		return nil, &ioError{fmt.Errorf("cannot read %s: %v", path, pathErr.Err)}
+	case strings.Contains(err.Error(), "gzip"):
+		return nil, &ioError{err}
+	}
+	return nil, &usageError{err.Error()}
+}

@@ -7,7 +7,6 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/atomicfile"
-	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
@@ -69,7 +68,7 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usagef("%v", err)
 	}
-	r, err := corpus.Open(path, copts)
+	r, err := openCorpus(path, copts)
 	if err != nil {
 		return err
 	}
