@@ -1,6 +1,316 @@
 package sweep
 
-import "io"
+import (
+	"bytes"
+	"fmt"
+	"html/template"
+	"image/color"
+	"io"
+	"math"
+	"strings"
 
-// WriteHTML writes the sweep as one self-contained HTML page.
-func (r *Result) WriteHTML(w io.Writer) error { return r.WriteJSON(w) }
+	"github.com/bowline/bowline/hashing"
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgsvg"
+)
+
+// WriteHTML writes the sweep as one self-contained HTML page: the summary,
+// plots drawn as inline SVG by gonum/plot (collision rate measured and
+// expected, held-out accuracy, memory, each against the width), the table
+// and the crowded buckets. The page loads nothing from elsewhere and has
+// no script.
+func (r *Result) WriteHTML(w io.Writer) error {
+	page := htmlPage{Title: "bowline sweep: " + r.Train}
+	v := r.Vocabulary
+	page.Facts = []fact{
+		{"training corpus", fmt.Sprintf("%s: %d docs, %d feature occurrences, %d distinct keys", r.Train, r.Docs, r.Features, r.DistinctKeys)},
+		{"vocabulary", fmt.Sprintf("%d terms kept (%s of occurrences); memory %s = weights %s + index %s (%d bytes per entry, an estimate, plus the key bytes)",
+			v.Terms, pct(v.KeptShare), bytesText(v.Bytes), bytesText(v.ModelBytes), bytesText(v.IndexBytes), r.IndexEntryBytes)},
+		{"hashing", fmt.Sprintf("seed %d, signed %v; model memory = width × 8 bytes × %d weight vector(s)", r.Seed, r.Signed, r.Classes)},
+	}
+	if r.Holdout != "" && v.Eval != nil {
+		f := fmt.Sprintf("%s: %d docs; L2-regularized logistic regression, C = %g", r.Holdout, r.HoldoutDocs, r.C)
+		if v.HoldoutOOVShare != nil {
+			f += fmt.Sprintf("; vocabulary OOV share %s", pct(*v.HoldoutOOVShare))
+		}
+		page.Facts = append(page.Facts, fact{"held out", f})
+	}
+	if len(r.Labels) > 0 {
+		page.Facts = append(page.Facts, fact{"labels", strings.Join(r.Labels, ", ")})
+	}
+	plots := []struct {
+		caption string
+		draw    func() (*plot.Plot, error)
+	}{
+		{"Collision rate: share of distinct training keys whose bucket holds another key, measured (points) and expected under uniform hashing, 1 − (1 − 1/m)^(n−1) (line).", r.collisionPlot},
+		{"Held-out accuracy of the logistic regression on each width's rows (points); the vocabulary's accuracy is the dashed line.", r.accuracyPlot},
+		{"Memory: hashing model weights, width × 8 bytes per weight vector (points); the vocabulary's weights plus its key index is the dashed line. Log scale.", r.memoryPlot},
+	}
+	for _, pl := range plots {
+		p, err := pl.draw()
+		if err != nil {
+			return fmt.Errorf("sweep: drawing plot: %w", err)
+		}
+		if p == nil {
+			continue
+		}
+		svg, err := svgOf(p)
+		if err != nil {
+			return err
+		}
+		page.Plots = append(page.Plots, htmlPlot{Caption: pl.caption, SVG: svg})
+	}
+	page.Head, page.Rows = r.table()
+	page.Note = "collide: share of distinct keys sharing a bucket; expected: 1 − (1 − 1/m)^(n−1); shared occ.: share of feature occurrences in a shared bucket; memory: weights (plus the index for the vocabulary)."
+	if e := r.Explain; e != nil {
+		page.ExplainWidth = hashing.FormatWidth(e.Width)
+		page.Explain = e.Buckets
+		page.HasExplain = true
+	}
+	return pageTemplate.Execute(w, page)
+}
+
+type fact struct{ Label, Value string }
+
+type htmlPlot struct {
+	Caption string
+	// SVG is markup drawn by vgsvg, which escapes every string it draws.
+	SVG template.HTML
+}
+
+type htmlPage struct {
+	Title        string
+	Facts        []fact
+	Plots        []htmlPlot
+	Head         []string
+	Rows         [][]string
+	Note         string
+	HasExplain   bool
+	ExplainWidth string
+	Explain      []Bucket
+}
+
+var pageTemplate = template.Must(template.New("page").Parse(`<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<title>{{.Title}}</title>
+<style>
+body { font-family: sans-serif; margin: 2em auto; max-width: 62em; padding: 0 1em; color: #222; }
+h1 { font-size: 1.5em; }
+h2 { font-size: 1.2em; border-bottom: 1px solid #ccc; padding-bottom: .2em; margin-top: 2em; }
+table { border-collapse: collapse; margin: .8em 0; }
+th, td { padding: .15em .8em .15em 0; text-align: left; vertical-align: top; }
+thead th { border-bottom: 1px solid #ccc; }
+table.facts th { font-weight: normal; color: #555; }
+table.sweep td, table.sweep th { text-align: right; font-variant-numeric: tabular-nums; }
+table.sweep tr.vocab td { font-weight: bold; }
+figure { margin: 1em 0; }
+figure svg { max-width: 100%; height: auto; }
+figcaption, p.note { font-size: .9em; color: #555; }
+</style>
+</head>
+<body>
+<h1>{{.Title}}</h1>
+<table class="facts">
+{{- range .Facts}}
+<tr><th>{{.Label}}</th><td>{{.Value}}</td></tr>
+{{- end}}
+</table>
+<h2>plots</h2>
+{{- range .Plots}}
+<figure>
+{{.SVG}}
+<figcaption>{{.Caption}}</figcaption>
+</figure>
+{{- end}}
+<h2>table</h2>
+<table class="sweep">
+<thead><tr>{{range .Head}}<th>{{.}}</th>{{end}}</tr></thead>
+<tbody>
+{{- range $i, $r := .Rows}}
+<tr{{if eq $i 0}} class="vocab"{{end}}>{{range $r}}<td>{{.}}</td>{{end}}</tr>
+{{- end}}
+</tbody>
+</table>
+<p class="note">{{.Note}}</p>
+{{- if .HasExplain}}
+<h2>most crowded buckets at width {{.ExplainWidth}}</h2>
+{{- if not .Explain}}
+<p>No bucket holds two keys at this width.</p>
+{{- end}}
+<table>
+<thead><tr><th>bucket</th><th>keys</th><th>occurrences</th><th>keys sharing it (occurrences)</th></tr></thead>
+<tbody>
+{{- range .Explain}}
+<tr><td>{{.Bucket}}</td><td>{{len .Keys}}</td><td>{{.Occurrences}}</td><td>{{range $i, $k := .Keys}}{{if $i}}, {{end}}<code>{{$k.Key}}</code> ({{$k.Count}}){{end}}</td></tr>
+{{- end}}
+</tbody>
+</table>
+{{- end}}
+</body>
+</html>
+`))
+
+var (
+	blue   = color.RGBA{R: 0x2b, G: 0x6c, B: 0xb0, A: 0xff}
+	orange = color.RGBA{R: 0xd9, G: 0x7a, B: 0x1e, A: 0xff}
+	green  = color.RGBA{R: 0x4a, G: 0x9a, B: 0x5b, A: 0xff}
+)
+
+// widthAxis sets the x axis to log2 of the width, with "2^k" ticks.
+func (r *Result) widthAxis(p *plot.Plot) (lo, hi float64) {
+	lo = math.Log2(float64(r.Widths[0].Width))
+	hi = math.Log2(float64(r.Widths[len(r.Widths)-1].Width))
+	if hi-lo < 1 {
+		lo, hi = lo-0.5, hi+0.5
+	}
+	step := math.Max(1, math.Ceil((hi-lo)/12))
+	var ticks []plot.Tick
+	for k := math.Ceil(lo); k <= hi; k++ {
+		label := ""
+		if math.Mod(k-math.Ceil(lo), step) == 0 {
+			label = fmt.Sprintf("2^%d", int(k))
+		}
+		ticks = append(ticks, plot.Tick{Value: k, Label: label})
+	}
+	p.X.Tick.Marker = plot.ConstantTicks(ticks)
+	p.X.Label.Text = "hashing width (buckets)"
+	p.X.Min, p.X.Max = lo-0.3, hi+0.3
+	return lo, hi
+}
+
+func (r *Result) collisionPlot() (*plot.Plot, error) {
+	p := plot.New()
+	p.Title.Text = "Collision rate against width"
+	p.Y.Label.Text = "keys sharing a bucket (%)"
+	r.widthAxis(p)
+	pts := make(plotter.XYs, len(r.Widths))
+	for i, x := range r.Widths {
+		pts[i] = plotter.XY{X: math.Log2(float64(x.Width)), Y: 100 * x.CollisionRate}
+	}
+	sc, err := plotter.NewScatter(pts)
+	if err != nil {
+		return nil, err
+	}
+	sc.GlyphStyle = draw.GlyphStyle{Color: blue, Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
+	n := float64(r.DistinctKeys)
+	f := plotter.NewFunction(func(x float64) float64 {
+		return 100 * hashing.ExpectedCollisionRate(n, math.Exp2(x))
+	})
+	f.XMin, f.XMax = p.X.Min, p.X.Max
+	f.Samples = 200
+	f.Color = orange
+	f.Width = vg.Points(1.5)
+	p.Add(plotter.NewGrid(), f, sc)
+	p.Legend.Add("measured", sc)
+	p.Legend.Add("expected", f)
+	p.Legend.Top = true
+	p.Y.Min, p.Y.Max = 0, 105
+	return p, nil
+}
+
+func (r *Result) accuracyPlot() (*plot.Plot, error) {
+	if r.Vocabulary.Eval == nil {
+		return nil, nil
+	}
+	p := plot.New()
+	p.Title.Text = "Held-out accuracy against width"
+	p.Y.Label.Text = "accuracy (%)"
+	lo, hi := r.widthAxis(p)
+	var pts plotter.XYs
+	ymin, ymax := 100*r.Vocabulary.Eval.Accuracy, 100*r.Vocabulary.Eval.Accuracy
+	for _, x := range r.Widths {
+		if x.Eval == nil {
+			continue
+		}
+		a := 100 * x.Eval.Accuracy
+		pts = append(pts, plotter.XY{X: math.Log2(float64(x.Width)), Y: a})
+		ymin, ymax = math.Min(ymin, a), math.Max(ymax, a)
+	}
+	line, sc, err := plotter.NewLinePoints(pts)
+	if err != nil {
+		return nil, err
+	}
+	line.Color = blue
+	sc.GlyphStyle = draw.GlyphStyle{Color: blue, Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
+	vl, err := hline(lo-0.3, hi+0.3, 100*r.Vocabulary.Eval.Accuracy, green)
+	if err != nil {
+		return nil, err
+	}
+	p.Add(plotter.NewGrid(), vl, line, sc)
+	p.Legend.Add("hashing", line, sc)
+	p.Legend.Add("vocabulary", vl)
+	p.Legend.Top = true
+	p.Legend.Left = false
+	pad := math.Max(1, (ymax-ymin)*0.15)
+	p.Y.Min, p.Y.Max = math.Max(0, ymin-pad), math.Min(100, ymax+2*pad)
+	return p, nil
+}
+
+func (r *Result) memoryPlot() (*plot.Plot, error) {
+	p := plot.New()
+	p.Title.Text = "Model memory against width"
+	p.Y.Label.Text = "bytes"
+	lo, hi := r.widthAxis(p)
+	pts := make(plotter.XYs, len(r.Widths))
+	ymin, ymax := float64(r.Vocabulary.Bytes), float64(r.Vocabulary.Bytes)
+	for i, x := range r.Widths {
+		b := float64(x.ModelBytes)
+		pts[i] = plotter.XY{X: math.Log2(float64(x.Width)), Y: b}
+		ymin, ymax = math.Min(ymin, b), math.Max(ymax, b)
+	}
+	if ymin <= 0 {
+		ymin = 1
+	}
+	line, sc, err := plotter.NewLinePoints(pts)
+	if err != nil {
+		return nil, err
+	}
+	line.Color = blue
+	sc.GlyphStyle = draw.GlyphStyle{Color: blue, Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
+	vl, err := hline(lo-0.3, hi+0.3, math.Max(1, float64(r.Vocabulary.Bytes)), green)
+	if err != nil {
+		return nil, err
+	}
+	p.Add(plotter.NewGrid(), vl, line, sc)
+	p.Legend.Add("hashing weights", line, sc)
+	p.Legend.Add("vocabulary weights + index", vl)
+	p.Legend.Top = true
+	p.Legend.Left = true
+	p.Y.Scale = plot.LogScale{}
+	p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
+	p.Y.Min, p.Y.Max = ymin/2, ymax*8
+	return p, nil
+}
+
+// hline is a dashed horizontal line at y.
+func hline(x0, x1, y float64, c color.Color) (*plotter.Line, error) {
+	l, err := plotter.NewLine(plotter.XYs{{X: x0, Y: y}, {X: x1, Y: y}})
+	if err != nil {
+		return nil, err
+	}
+	l.Color = c
+	l.Width = vg.Points(1.5)
+	l.Dashes = []vg.Length{vg.Points(6), vg.Points(4)}
+	return l, nil
+}
+
+// svgOf draws p on an SVG canvas and returns the <svg> element alone.
+func svgOf(p *plot.Plot) (template.HTML, error) {
+	c := vgsvg.New(6.5*vg.Inch, 3.4*vg.Inch)
+	p.Draw(draw.New(c))
+	var buf bytes.Buffer
+	if _, err := c.WriteTo(&buf); err != nil {
+		return "", err
+	}
+	s := buf.String()
+	i := strings.Index(s, "<svg")
+	if i < 0 {
+		return "", fmt.Errorf("sweep: no <svg> element in plot output")
+	}
+	return template.HTML(strings.TrimSpace(s[i:])), nil
+}
