@@ -33,7 +33,34 @@ const maxLabels = 100000
 
 // Learn counts every record of r with l and returns the sealed spec and the
 // run's figures.
+//
+// When l has a key limit (spec.Learner.LimitKeys), each batch of records is
+// counted exactly by one worker and the batches' counts are merged into the
+// bounded counts in input order, so the pruning, and the spec, are the
+// same for any worker count.
 func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *report.Figures, error) {
+	s, _, fig, err := learn(r, l, o, false)
+	return s, fig, err
+}
+
+// Count counts every record of r with l like Learn but applies no cutoff:
+// it returns the exact counts as a shard (see spec.Shard), with the run's
+// figures (no vocabulary figures). l must have no key limit.
+func Count(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Shard, *report.Figures, error) {
+	if l.KeyLimit() > 0 {
+		return nil, nil, errors.New("count shards hold exact counts; a key limit would prune them")
+	}
+	_, sh, fig, err := learn(r, l, o, true)
+	return sh, fig, err
+}
+
+// part is one batch's counts waiting to be merged in order.
+type part struct {
+	w *spec.LearnWorker
+	b *batch
+}
+
+func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec.Spec, *spec.Shard, *report.Figures, error) {
 	start := time.Now()
 	nw := workerCount(o.Workers)
 	free := make(chan *batch, nw*3)
@@ -71,44 +98,81 @@ func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *repo
 	}()
 
 	workers := make([]*spec.LearnWorker, nw)
-	var docs, empty, inBytes int64
+	var docs, empty, inBytes, emitted int64
 	var mu sync.Mutex
 	var wg sync.WaitGroup
+
+	// With a key limit, batches' counts meet in input order.
+	bounded := l.KeyLimit() > 0
+	var total *spec.LearnWorker
+	parts := make(chan part, nw)
+	mergeDone := make(chan struct{})
+	if bounded {
+		total = l.NewTotal()
+		go func() {
+			defer close(mergeDone)
+			pending := map[int]part{}
+			next := 0
+			for p := range parts {
+				pending[p.b.seq] = p
+				for q, ok := pending[next]; ok; q, ok = pending[next] {
+					delete(pending, next)
+					total.Merge(q.w)
+					free <- q.b
+					next++
+				}
+			}
+		}()
+	} else {
+		close(mergeDone)
+	}
 	for i := range workers {
 		workers[i] = l.NewWorker()
 		wg.Add(1)
 		go func(w *spec.LearnWorker) {
 			defer wg.Done()
 			for b := range work {
-				var e int64
+				var e, n int64
 				for _, texts := range b.texts {
-					if w.Observe(texts) == 0 {
+					k := w.Observe(texts)
+					if k == 0 {
 						e++
 					}
+					n += int64(k)
 				}
 				mu.Lock()
 				docs += int64(len(b.lines))
 				empty += e
 				inBytes += b.bytes
+				emitted += n
 				mu.Unlock()
-				free <- b
+				if bounded {
+					parts <- part{w.Detach(), b}
+				} else {
+					free <- b
+				}
 			}
 		}(workers[i])
 	}
 	wg.Wait()
+	close(parts)
+	<-mergeDone
 	<-readerDone
 	if readErr != nil {
-		return nil, nil, readErr
+		return nil, nil, nil, readErr
 	}
 	if labelErr != nil {
-		return nil, nil, labelErr
+		return nil, nil, nil, labelErr
 	}
 	if docs == 0 {
-		return nil, nil, errors.New(o.Name + ": no records to learn from")
+		return nil, nil, nil, errors.New(o.Name + ": no records to learn from")
 	}
-	merged := workers[0]
-	for _, w := range workers[1:] {
-		merged.Merge(w)
+	merged := total
+	if !bounded {
+		merged = workers[0]
+		for _, w := range workers[1:] {
+			merged.Merge(w)
+		}
 	}
 	labels := make([]string, 0, len(labelCount))
 	for k := range labelCount {
@@ -122,9 +186,17 @@ func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *repo
 			lab.Counts = append(lab.Counts, labelCount[k])
 		}
 	}
-	s, cut, err := l.Finish(merged, lab)
+	var s *spec.Spec
+	var sh *spec.Shard
+	var cut vocab.CutReport
+	var err error
+	if shard {
+		sh, err = l.Shard(merged, lab)
+	} else {
+		s, cut, err = l.Finish(merged, lab)
+	}
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
 	elapsed := time.Since(start).Seconds()
 
@@ -141,23 +213,31 @@ func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *repo
 			}
 		}
 	}
-	fig := &report.Figures{Command: "learn", Input: o.Name, Spec: s.Fingerprint, Mode: s.Content.Mode, Docs: docs, EmptyDocs: empty}
+	fig := &report.Figures{Command: "learn", Input: o.Name, Mode: c.Mode, Docs: docs, EmptyDocs: empty}
 	if o.Rejects != nil {
 		fig.Rejected = o.Rejects.N
 	}
 	fillTokenFigures(fig, as, dropped, features)
-	fig.Features = featureTotal(merged)
-	fig.Sparsity = report.Sparsity{Columns: s.Columns(), NNZHistogram: []int64{}, Sparsity: 1}
-	if s.Content.Mode == spec.ModeVocabulary {
-		fig.Vocabulary = vocabFigures(s, cut, o.TopTerms)
-	} else if t := merged.Tally(); t != nil {
+	if merged.Counts() != nil {
+		// Every key emitted was counted once: the sum of the counts.
+		fig.Features = emitted
+	}
+	fig.Sparsity = report.Sparsity{NNZHistogram: []int64{}, Sparsity: 1}
+	if s != nil {
+		fig.Spec = s.Fingerprint
+		fig.Sparsity.Columns = s.Columns()
+		if s.Content.Mode == spec.ModeVocabulary {
+			fig.Vocabulary = vocabFigures(s, cut, o.TopTerms)
+		}
+	}
+	if t := merged.Tally(); t != nil {
 		fig.Collisions = collisionFigures(t, s.Content.Hashing.Width)
 	}
 	for _, k := range labels {
 		fig.Labels = append(fig.Labels, report.Count{Name: k, Count: labelCount[k]})
 	}
 	fig.Throughput = throughput(maxInt64(r.BytesRead(), inBytes), docs, elapsed, nw)
-	return s, fig, nil
+	return s, sh, fig, nil
 }
 
 func maxInt64(a, b int64) int64 {
@@ -165,14 +245,6 @@ func maxInt64(a, b int64) int64 {
 		return a
 	}
 	return b
-}
-
-func featureTotal(w *spec.LearnWorker) int64 {
-	var n int64
-	if c := w.Counts(); c != nil {
-		c.Each(func(_ string, _ int, count, _ int64) { n += count })
-	}
-	return n
 }
 
 func vocabFigures(s *spec.Spec, cut vocab.CutReport, top int) *report.VocabFigures {

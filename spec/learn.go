@@ -88,6 +88,9 @@ type Learner struct {
 	analysis *Analysis
 	idf      weight.IDF
 	cutoffs  vocab.Cutoffs
+	capacity int        // most distinct keys counted at once (0: no limit)
+	parent   *Spec      // the spec being extended (see NewExtendLearner)
+	ext      *Extension // filled by Finish when extending
 }
 
 // NewLearner prepares learning with the given settings.
@@ -105,6 +108,49 @@ func NewLearner(s *Settings) (*Learner, error) {
 
 // Content is the content being learned (settings only until Finish).
 func (l *Learner) Content() *Content { return &l.content }
+
+// LimitKeys bounds the distinct keys the merged counts hold at once (a
+// memory limit): past it, the keys with the lowest document counts are
+// pruned with the Space-Saving algorithm (see vocab.NewBoundedCounts) and
+// the spec records what was pruned in Vocabulary.Seen.Pruning. It applies
+// to the counts made by NewTotal; only vocabulary mode counts keys.
+func (l *Learner) LimitKeys(capacity int) error {
+	if l.content.Mode != ModeVocabulary {
+		return fmt.Errorf("a key limit applies to vocabulary mode only; hashing mode keeps no per-key counts")
+	}
+	if capacity < vocab.MinCapacity {
+		return fmt.Errorf("a key limit of %d is below %d", capacity, vocab.MinCapacity)
+	}
+	l.capacity = capacity
+	return nil
+}
+
+// KeyLimit is the limit set by LimitKeys (0: none).
+func (l *Learner) KeyLimit() int { return l.capacity }
+
+// NewTotal returns an empty worker to merge other workers into: it has no
+// analyzer, and its counts are bounded when LimitKeys was called.
+func (l *Learner) NewTotal() *LearnWorker {
+	w := l.NewWorker()
+	if l.capacity > 0 {
+		w.counts = vocab.NewBoundedCounts(l.capacity)
+	}
+	return w
+}
+
+// Detach returns a worker that holds what w has counted so far (counts
+// and documents, no analyzer) and leaves w with fresh, empty counts, so
+// that one goroutine's counts can be merged batch by batch, in order.
+// Vocabulary mode only.
+func (w *LearnWorker) Detach() *LearnWorker {
+	d := &LearnWorker{l: w.l, counts: w.counts, docs: w.docs}
+	w.counts = vocab.NewCounts()
+	w.docs = 0
+	return d
+}
+
+// Docs is the number of documents the worker has counted.
+func (w *LearnWorker) Docs() int64 { return w.docs }
 
 // LearnWorker counts the documents one goroutine sees.
 type LearnWorker struct {
@@ -195,15 +241,28 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 	c.Labels = labels
 	var rep vocab.CutReport
 	if c.Mode == ModeVocabulary {
-		v, r := w.counts.Build(l.cutoffs)
-		rep = r
 		vv := *c.Vocabulary
-		vv.Keys = make([]string, len(v.Terms))
-		vv.Orders = make([]int, len(v.Terms))
-		vv.DocCounts = make([]int64, len(v.Terms))
-		for i, t := range v.Terms {
-			vv.Keys[i], vv.Orders[i], vv.DocCounts[i] = t.Key, t.Order, t.Docs
+		if l.parent != nil {
+			if err := l.extend(&vv, w.counts); err != nil {
+				return nil, rep, err
+			}
+			lab, err := extendLabels(l.parent.Content.Labels, labels)
+			if err != nil {
+				return nil, rep, err
+			}
+			c.Labels = lab
+			rep = vocab.CutReport{Seen: w.counts.Len(), Kept: len(vv.Keys)}
+		} else {
+			v, r := w.counts.Build(l.cutoffs)
+			rep = r
+			vv.Keys = make([]string, len(v.Terms))
+			vv.Orders = make([]int, len(v.Terms))
+			vv.DocCounts = make([]int64, len(v.Terms))
+			for i, t := range v.Terms {
+				vv.Keys[i], vv.Orders[i], vv.DocCounts[i] = t.Key, t.Order, t.Docs
+			}
 		}
+		vv.Seen = seenFrom(w.counts)
 		c.Vocabulary = &vv
 		if l.idf != weight.IDFNone {
 			c.Weights.IDFValues = weight.IDFTable(l.idf, c.Docs, vv.DocCounts)
@@ -222,6 +281,9 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 		c.Weights.IDFDefault = l.idf.Value(c.Docs, 0)
 	}
 	s := &Spec{Content: c}
+	if l.parent != nil {
+		s.Parent = l.parent.Fingerprint
+	}
 	if err := s.Seal(); err != nil {
 		return nil, rep, err
 	}
@@ -229,4 +291,18 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 		return nil, rep, err
 	}
 	return s, rep, nil
+}
+
+// seenFrom summarizes every counted key for the spec.
+func seenFrom(c *vocab.Counts) *Seen {
+	sn := &Seen{Keys: int64(c.Len()), DocHistogram: c.DocHistogram(), TopDocCounts: c.TopDocCounts(TopDocCountsKept)}
+	sn.Orders, sn.OrderKeys = c.OrderKeys()
+	if sn.Orders == nil {
+		sn.Orders, sn.OrderKeys = []int{}, []int64{}
+	}
+	if p := c.Pruning(); p.Evicted > 0 || p.MaxDocs > 0 {
+		sn.Pruning = &Pruning{Method: "space-saving", Capacity: int64(p.Capacity), Evicted: p.Evicted,
+			EvictedDocs: p.EvictedDocs, EvictedCount: p.EvictedCount, MaxDocs: p.MaxDocs, InexactKeys: int64(p.InexactKeys)}
+	}
+	return sn
 }

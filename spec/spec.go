@@ -122,6 +122,57 @@ type Vocabulary struct {
 	// Retired marks columns kept from a parent spec whose keys no longer
 	// pass the cutoffs (same length as Keys, or empty).
 	Retired []bool `json:"retired,omitempty"`
+	// ParentKeys is the number of leading columns taken over from the
+	// parent spec (bowline learn --extend); the columns after them were
+	// appended. 0 for a spec without a parent.
+	ParentKeys int `json:"parent_keys,omitempty"`
+	// Seen summarizes every key counted at learn time, kept or cut, so
+	// that the effect of other cutoffs can be told without the corpus.
+	Seen *Seen `json:"seen,omitempty"`
+}
+
+// TopDocCountsKept is how many of the largest document counts Seen keeps.
+const TopDocCountsKept = 256
+
+// Seen summarizes the document counts of every key counted at learn time.
+type Seen struct {
+	// Keys is the number of distinct keys counted.
+	Keys int64 `json:"keys"`
+	// Orders and OrderKeys are parallel: each n-gram order code counted,
+	// ascending, and its number of distinct keys.
+	Orders    []int   `json:"orders"`
+	OrderKeys []int64 `json:"order_keys"`
+	// DocHistogram counts keys by document count: see
+	// vocab.Counts.DocHistogram and vocab.DocBucketBounds.
+	DocHistogram []int64 `json:"doc_histogram"`
+	// TopDocCounts are the largest document counts, descending (at most
+	// TopDocCountsKept), kept or cut: with the histogram they make the
+	// effect of a max-doc-share cutoff exact (see vocab.Survivors).
+	TopDocCounts []int64 `json:"top_doc_counts"`
+	// Pruning is set when learn ran under a memory limit and had to drop
+	// keys; the figures above then describe the keys it held at the end.
+	Pruning *Pruning `json:"pruning,omitempty"`
+}
+
+// Pruning records what bounded counting dropped (see vocab.Pruning).
+type Pruning struct {
+	// Method names the algorithm: "space-saving" (Metwally, Agrawal and
+	// El Abbadi, ICDT 2005) over document counts.
+	Method string `json:"method"`
+	// Capacity is the most distinct keys held at once.
+	Capacity int64 `json:"capacity"`
+	// Evicted counts keys dropped (a key dropped twice counts twice);
+	// EvictedDocs and EvictedCount their document and occurrence counts
+	// at the time, summed.
+	Evicted      int64 `json:"evicted"`
+	EvictedDocs  int64 `json:"evicted_docs"`
+	EvictedCount int64 `json:"evicted_count"`
+	// MaxDocs is the error bound: no dropped key was found in more than
+	// MaxDocs documents, and no kept document count is too high by more.
+	MaxDocs int64 `json:"max_docs"`
+	// InexactKeys counts kept keys whose document count may be too high;
+	// every other count is exact.
+	InexactKeys int64 `json:"inexact_keys"`
 }
 
 // Hashing holds the hashing-space settings.

@@ -14,6 +14,7 @@ type stat struct {
 	docs  int64 // documents holding the key at least once
 	last  int64 // serial of the document that last counted the key
 	order int32 // n-gram order code given with the first occurrence
+	hpos  int32 // position in the pruning heap (bounded Counts only)
 }
 
 // Counts accumulates term frequencies (occurrences) and document
@@ -29,6 +30,7 @@ type Counts struct {
 	serial int64            // serial of the current document (only grows)
 	ndocs  int64            // finished documents
 	open   bool             // Add was called since the last EndDoc
+	b      *bounded         // pruning state of a bounded Counts (see prune.go)
 }
 
 // NewCounts returns an empty Counts.
@@ -44,13 +46,28 @@ func NewCounts() *Counts {
 // been seen before.
 func (c *Counts) Add(key []byte, order int) {
 	c.open = true
+	if c.b != nil && c.b.doc.Len() > 0 {
+		if _, ok := c.b.doc.index[string(key)]; ok {
+			c.b.doc.Add(key, order)
+			return
+		}
+	}
 	if i, ok := c.index[string(key)]; ok {
 		s := &c.stats[i]
 		s.count++
 		if s.last != c.serial {
 			s.last = c.serial
 			s.docs++
+			if c.b != nil {
+				c.b.down(c, int(s.hpos))
+			}
 		}
+		return
+	}
+	if c.b != nil {
+		// A new key waits in the document's own counts until EndDoc, so
+		// that it enters the table once per document (see prune.go).
+		c.b.doc.Add(key, order)
 		return
 	}
 	c.insert(string(key), order, 1, 1, c.serial)
@@ -69,6 +86,9 @@ func (c *Counts) insert(key string, order int, count, docs, last int64) {
 // EndDoc closes the current document. A document with no keys still
 // counts toward Docs.
 func (c *Counts) EndDoc() {
+	if c.b != nil {
+		c.b.endDoc(c)
+	}
 	c.ndocs++
 	c.serial++
 	c.open = false
@@ -90,6 +110,17 @@ func (c *Counts) Merge(o *Counts) {
 	odocs := o.ndocs
 	if o.open {
 		odocs++
+	}
+	if o.b != nil && o.b.doc.Len() > 0 {
+		// o's unfinished document: its new keys still wait in o.b.doc,
+		// and merging them counts that document once.
+		c.Merge(o.b.doc)
+		odocs--
+	}
+	if c.b != nil || o.b != nil {
+		c.mergePruned(o)
+		c.ndocs += odocs
+		return
 	}
 	for i := 0; i < n; i++ {
 		k, s := o.keys[i], o.stats[i]
@@ -169,4 +200,132 @@ func DocBucketBounds(i int) (lo, hi int64) {
 		return int64(1)<<62 + 1, math.MaxInt64
 	}
 	return int64(1)<<shift + 1, int64(1) << (shift + 1)
+}
+
+// Term returns the figures of one counted key, and whether it was counted.
+func (c *Counts) Term(key string) (Term, bool) {
+	i, ok := c.index[key]
+	if !ok {
+		return Term{Key: key}, false
+	}
+	s := c.stats[i]
+	return Term{Key: key, Order: int(s.order), Docs: s.docs, Count: s.count}, true
+}
+
+// TopDocCounts returns the k largest document counts over all counted keys,
+// in descending order (fewer when fewer keys were counted). With
+// DocHistogram it lets Survivors tell exactly how many keys a cutoff on
+// very common keys would remove.
+func (c *Counts) TopDocCounts(k int) []int64 {
+	d := make([]int64, len(c.stats))
+	for i, s := range c.stats {
+		d[i] = s.docs
+	}
+	slices.SortFunc(d, func(a, b int64) int {
+		if a > b {
+			return -1
+		}
+		if a < b {
+			return 1
+		}
+		return 0
+	})
+	if len(d) > k {
+		d = d[:k:k]
+	}
+	return d
+}
+
+// OrderKeys returns the order codes counted, ascending, and the number of
+// distinct keys counted under each.
+func (c *Counts) OrderKeys() (codes []int, keys []int64) {
+	per := map[int32]int64{}
+	for _, s := range c.stats {
+		per[s.order]++
+	}
+	for k := range per {
+		codes = append(codes, int(k))
+	}
+	slices.Sort(codes)
+	for _, k := range codes {
+		keys = append(keys, per[int32(k)])
+	}
+	return codes, keys
+}
+
+// Survivors tells how many keys would pass cut, from a document-count
+// summary instead of the counts themselves: hist is DocHistogram, top is
+// TopDocCounts (any k) and docs the number of documents. The answer is
+// exact (lo == hi) when every cutoff threshold falls on an exact bucket of
+// the histogram (document counts 1 to 16, or a bucket's lower bound) or
+// among the counts listed in top; otherwise lo and hi bound it, because a
+// wide bucket only says that its keys' counts lie between its bounds.
+// MaxTerms caps both figures.
+func Survivors(hist, top []int64, docs int64, cut Cutoffs) (lo, hi int64) {
+	// Keep a key with document count d when d >= cut.MinDocs and, with
+	// documents, d/docs <= cut.MaxDocShare, the predicate Build uses.
+	keep := func(d int64) bool {
+		if d < cut.MinDocs {
+			return false
+		}
+		return docs <= 0 || float64(d)/float64(docs) <= cut.MaxDocShare
+	}
+	var total int64
+	for _, n := range hist {
+		total += n
+	}
+	// top holds every count when it lists every key; otherwise the keys
+	// it does not list have counts at most its smallest entry.
+	complete := int64(len(top)) >= total
+	var tmin int64 = math.MaxInt64
+	if len(top) > 0 {
+		tmin = top[len(top)-1]
+	}
+	inTop := make([]int64, len(hist))
+	for _, d := range top {
+		if keep(d) {
+			lo++
+		}
+		if b := docBucket(d); b < len(inTop) {
+			inTop[b]++
+		}
+	}
+	hi = lo
+	for b, n := range hist {
+		unknown := n - inTop[b]
+		if unknown <= 0 || complete {
+			continue
+		}
+		blo, bhi := DocBucketBounds(b)
+		if bhi > tmin {
+			bhi = tmin
+		}
+		if blo > bhi {
+			continue
+		}
+		// The unknown keys of bucket b have counts in [blo, bhi]; keep is
+		// true on one interval of counts, so checking its ends and the
+		// interval's meeting points is enough.
+		all, none := true, true
+		for _, d := range []int64{blo, bhi} {
+			if keep(d) {
+				none = false
+			} else {
+				all = false
+			}
+		}
+		switch {
+		case all:
+			lo += unknown
+			hi += unknown
+		case none && !(blo < cut.MinDocs && cut.MinDocs <= bhi && keep(cut.MinDocs)):
+			// no count in [blo, bhi] passes
+		default:
+			hi += unknown
+		}
+	}
+	if m := int64(cut.MaxTerms); m > 0 {
+		lo, hi = min(lo, m), min(hi, m)
+	}
+	return lo, hi
 }
