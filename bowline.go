@@ -80,13 +80,15 @@ func (e *Encoder) Fields() []string { return e.fields }
 type Document struct {
 	// ID is copied to the row; bowline does not read it.
 	ID string
-	// Text is the text of a spec with a single text field.
+	// Text is the text of a spec with a single text field. An empty Text
+	// (with no Fields) is an empty document: it gives an empty row, as an
+	// empty record does in "bowline encode".
 	Text string
 	// Fields holds the text of each field by name, for a spec with several
 	// text fields (it may also name the single field of a one-field spec).
 	// Every field of the spec must be present; names the spec does not
 	// know are refused. A field present with an empty value is an empty
-	// text and gives an empty row, as "bowline encode" does.
+	// text.
 	Fields map[string]string
 }
 
@@ -136,10 +138,7 @@ func (e *DocumentError) Error() string {
 func (e *Encoder) Texts(d Document) ([][]byte, error) {
 	texts := make([][]byte, len(e.fields))
 	if len(e.fields) == 1 && len(d.Fields) == 0 {
-		if d.Text == "" {
-			return nil, &DocumentError{ID: d.ID, Reason: "no text"}
-		}
-		texts[0] = []byte(d.Text)
+		texts[0] = []byte(d.Text) // "" is an empty document
 		return texts, nil
 	}
 	if d.Text != "" {
@@ -181,7 +180,8 @@ func (e *Encoder) hasField(name string) bool {
 }
 
 // Encode encodes one document. The error is a *DocumentError when a text
-// field is missing or unknown. Encode is safe for concurrent use.
+// field the spec reads is missing from Fields, or Fields names a field the
+// spec does not read. Encode is safe for concurrent use.
 func (e *Encoder) Encode(d Document) (Row, error) {
 	texts, err := e.Texts(d)
 	if err != nil {

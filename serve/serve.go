@@ -31,6 +31,7 @@ import (
 	"net/http"
 	"runtime"
 	"strconv"
+	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -364,17 +365,22 @@ func (h *Handler) encode(w http.ResponseWriter, r *http.Request) (int, int, *Req
 // gives an empty record); an absent one is a document without text.
 func toDocument(enc *bowline.Encoder, wd *WireDocument) (bowline.Document, error) {
 	d := bowline.Document{ID: wd.ID, Fields: wd.Fields}
-	if wd.Text == nil {
+	switch {
+	case wd.Text == nil && len(wd.Fields) == 0:
+		reason := "no text"
+		if f := enc.Fields(); len(f) > 1 {
+			reason = fmt.Sprintf("no text: give the fields %s", strings.Join(f, ", "))
+		}
+		return d, &bowline.DocumentError{ID: wd.ID, Reason: reason}
+	case wd.Text == nil:
 		return d, nil
-	}
-	if wd.Fields != nil {
+	case wd.Fields != nil:
 		return d, &bowline.DocumentError{ID: wd.ID, Reason: "both text and fields given; give one"}
 	}
-	if *wd.Text == "" && len(enc.Fields()) == 1 {
-		d.Fields = map[string]string{enc.Fields()[0]: ""}
-		return d, nil
-	}
 	d.Text = *wd.Text
+	if d.Text == "" && len(enc.Fields()) > 1 {
+		return d, &bowline.DocumentError{ID: wd.ID, Reason: fmt.Sprintf("the spec has %d text fields (%s); give them by name in fields", len(enc.Fields()), strings.Join(enc.Fields(), ", "))}
+	}
 	return d, nil
 }
 
