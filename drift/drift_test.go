@@ -12,7 +12,7 @@ import (
 
 var linesInput = spec.Input{Format: "lines", Text: []string{"line"}}
 
-func wordsOnly(t *testing.T, st *spec.Settings) *spec.Settings {
+func wordsOnly(t testing.TB, st *spec.Settings) *spec.Settings {
 	t.Helper()
 	st.NGrams.Words.Max = 1
 	return st
@@ -275,5 +275,19 @@ func TestNoAllocationPerDocument(t *testing.T) {
 	// One call before, and AllocsPerRun's warm-up run plus 100 runs.
 	if w.unseen["green"].count != 102 {
 		t.Errorf("green counted %d times, want 102", w.unseen["green"].count)
+	}
+}
+
+func BenchmarkCompare(b *testing.B) {
+	train, test := demoSplit(b, 2000)
+	s := learn(b, train, settings(b, tsvInput, 2, weight.IDFNone))
+	b.SetBytes(int64(len(test)))
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		r := open(b, test, s.Content.Input)
+		if _, err := Compare(s, r, Options{Workers: 2}); err != nil {
+			b.Fatal(err)
+		}
+		r.Close()
 	}
 }
