@@ -85,9 +85,28 @@ func NewBuilder(c Config) *Builder {
 // Tokens are expected to be valid UTF-8; an invalid byte counts as one
 // character.
 func (b *Builder) Emit(prefix []byte, tokens [][]byte, fn func(key []byte, kind Kind, order int)) {
+	b.EmitFrom(prefix, tokens, 0, fn)
+}
+
+// Context is the number of tokens before a chunk that EmitFrom needs to
+// form the word n-grams that reach into it: the largest word order less one.
+func (b *Builder) Context() int {
+	if b.c.Words.On() {
+		return b.c.Words.Max - 1
+	}
+	return 0
+}
+
+// EmitFrom is Emit for the part of a long token stream that starts at
+// tokens[from]: tokens before from are context only. It emits the word
+// n-grams that end at or after from and the character n-grams of
+// tokens[from:], so that a stream cut into chunks, each passed with the
+// previous Context() tokens in front, yields exactly the keys of one Emit
+// over the whole stream (in another order).
+func (b *Builder) EmitFrom(prefix []byte, tokens [][]byte, from int, fn func(key []byte, kind Kind, order int)) {
 	if w := b.c.Words; w.On() {
 		for n := w.Min; n <= w.Max && n <= len(tokens); n++ {
-			for i := 0; i+n <= len(tokens); i++ {
+			for i := max(0, from-n+1); i+n <= len(tokens); i++ {
 				k := append(b.key[:0], prefix...)
 				k = append(k, tokens[i]...)
 				for _, t := range tokens[i+1 : i+n] {
@@ -100,7 +119,7 @@ func (b *Builder) Emit(prefix []byte, tokens [][]byte, fn func(key []byte, kind 
 		}
 	}
 	if c := b.c.Chars; c.On() {
-		for _, tok := range tokens {
+		for _, tok := range tokens[from:] {
 			b.mark(tok)
 			K := len(b.starts) - 1
 			for n := c.Min; n <= c.Max; n++ {

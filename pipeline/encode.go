@@ -173,7 +173,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	if o.Rejects != nil {
 		fig.Rejected = o.Rejects.N
 	}
-	fillTokenFigures(fig, as, dropped, ws.Features)
+	fillTokenFigures(fig, as, dropped, ws.Features[:])
 	fig.EmptyDocs = st.empty
 	cols := int64(enc.Columns())
 	fig.Sparsity = sparsity(rows, cols, &st)
@@ -286,7 +286,7 @@ func topCounts(pairs []countPair, n int) []report.Count {
 	return out
 }
 
-func fillTokenFigures(fig *report.Figures, as spec.AnalyzerStats, dropped []countPair, features map[int]int64) {
+func fillTokenFigures(fig *report.Figures, as spec.AnalyzerStats, dropped []countPair, features []int64) {
 	fig.Tokens = as.Tokenizer.Tokens
 	fig.StopDropped = as.StopDropped
 	if fig.Tokens > 0 {

@@ -63,8 +63,13 @@ type part struct {
 func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec.Spec, *spec.Shard, *report.Figures, error) {
 	start := time.Now()
 	nw := workerCount(o.Workers)
-	free := make(chan *batch, nw*3)
-	for i := 0; i < nw*3; i++ {
+	bounded := l.KeyLimit() > 0
+	nb := nw * 3
+	if bounded {
+		nb = nw + 1 // fewer batches in flight under a memory limit
+	}
+	free := make(chan *batch, nb)
+	for i := 0; i < nb; i++ {
 		free <- &batch{}
 	}
 	work := make(chan *batch, nw)
@@ -103,7 +108,6 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	var wg sync.WaitGroup
 
 	// With a key limit, batches' counts meet in input order.
-	bounded := l.KeyLimit() > 0
 	var total *spec.LearnWorker
 	parts := make(chan part, nw)
 	mergeDone := make(chan struct{})
@@ -202,7 +206,6 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 
 	var as spec.AnalyzerStats
 	var dropped []countPair
-	features := map[int]int64{}
 	for _, w := range workers {
 		st := w.Analyzer().Stats()
 		as.Tokenizer.Add(st.Tokenizer)
@@ -217,7 +220,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	if o.Rejects != nil {
 		fig.Rejected = o.Rejects.N
 	}
-	fillTokenFigures(fig, as, dropped, features)
+	fillTokenFigures(fig, as, dropped, nil)
 	if merged.Counts() != nil {
 		// Every key emitted was counted once: the sum of the counts.
 		fig.Features = emitted
@@ -270,4 +273,52 @@ func vocabFigures(s *spec.Spec, cut vocab.CutReport, top int) *report.VocabFigur
 		vf.TopTerms = append(vf.TopTerms, report.Count{Name: v.Keys[i], Count: v.DocCounts[i]})
 	}
 	return vf
+}
+
+// Memory model of a learn run under a memory limit (see KeyCapacity).
+const (
+	// NonHeapBytes is what a learn run is assumed to hold before counting
+	// when the caller cannot measure it: program text and data touched,
+	// goroutine stacks, runtime structures.
+	NonHeapBytes = 14 << 20
+	// baseHeapBytes is the heap a run needs besides workers and keys: the
+	// reader's buffers, label tallies, the figures.
+	baseHeapBytes = 2 << 20
+	// workerHeapBytes is the heap one worker adds under a key limit: a
+	// batch being read and one being counted (up to batchBytes of text
+	// each, with their record slices), that batch's exact counts and one
+	// waiting to be merged, the analyzer's buffers.
+	workerHeapBytes = 2*batchBytes + 5<<20
+	// keyHeapBytes is the heap one counted key costs over the whole run:
+	// its table entry in the bounded counts (vocab.BoundedKeyBytes plus
+	// about 24 bytes of key text, common practice for word n-grams) and,
+	// when learn finishes, its column in the vocabulary, the spec and the
+	// spec's JSON.
+	keyHeapBytes = vocab.BoundedKeyBytes + 24 + finishKeyBytes
+	// finishKeyBytes is the heap one kept key costs while learn finishes
+	// (measured by TestMemoryLimitRSS with a corpus of one-off keys).
+	finishKeyBytes = 200
+)
+
+// KeyCapacity turns a memory limit in bytes into the number of distinct
+// keys the bounded counts may hold, and the number of workers (at most
+// workers) that leaves room for them; inUse is the memory the process
+// holds already (its resident set; 0 if unknown, then NonHeapBytes is
+// assumed). Workers are dropped until the keys get at least half of what
+// is left. The capacity is below vocab.MinCapacity when the limit is too
+// small to count anything.
+func KeyCapacity(limit int64, workers int, inUse int64) (capacity, nworkers int) {
+	nw := workerCount(workers)
+	heap := limit - max(inUse, NonHeapBytes) - baseHeapBytes
+	for nw > 1 && heap-int64(nw)*workerHeapBytes < heap/2 {
+		nw--
+	}
+	keys := (heap - int64(nw)*workerHeapBytes) / keyHeapBytes
+	if keys < 0 {
+		keys = 0
+	}
+	if keys > 1<<31-1 {
+		keys = 1<<31 - 1
+	}
+	return int(keys), nw
 }

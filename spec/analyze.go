@@ -8,6 +8,9 @@ import (
 	"github.com/bowline/bowline/tokenize"
 )
 
+// MaxOrderCode is the largest order code (character n-grams of order 32).
+const MaxOrderCode = 100 + 32
+
 // OrderCode packs an n-gram kind and order into the int stored with each
 // vocabulary key: word n-grams are n, character n-grams 100+n.
 func OrderCode(kind ngram.Kind, n int) int {
@@ -136,9 +139,15 @@ func (a *Analysis) NewAnalyzer() *Analyzer {
 // are texts (in the order of the spec's text fields). key is only valid
 // during fn; code is the key's order code (see OrderCode).
 func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, code int)) {
+	emit := func(key []byte, kind ngram.Kind, order int) { fn(key, OrderCode(kind, order)) }
 	for i, text := range texts {
+		var prefix []byte
+		if z.prefixes != nil && i < len(z.prefixes) {
+			prefix = z.prefixes[i]
+		}
 		z.arena = z.arena[:0]
 		z.spans = z.spans[:0]
+		ctx := 0
 		z.tok.Each(text, func(t []byte, _ tokenize.Kind) {
 			if z.filter != nil && z.filter.Drop(t) {
 				return
@@ -148,21 +157,50 @@ func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, code int)) {
 			}
 			z.arena = append(z.arena, t...)
 			z.spans = append(z.spans, len(z.arena))
+			if len(z.spans) >= chunkTokens {
+				ctx = z.flush(prefix, ctx, false, emit)
+			}
 		})
-		z.tokens = z.tokens[:0]
-		start := 0
-		for _, end := range z.spans {
-			z.tokens = append(z.tokens, z.arena[start:end:end])
-			start = end
-		}
-		var prefix []byte
-		if z.prefixes != nil && i < len(z.prefixes) {
-			prefix = z.prefixes[i]
-		}
-		z.ngr.Emit(prefix, z.tokens, func(key []byte, kind ngram.Kind, order int) {
-			fn(key, OrderCode(kind, order))
-		})
+		z.flush(prefix, ctx, true, emit)
 	}
+}
+
+// chunkTokens bounds the tokens an Analyzer holds: a longer document is
+// cut into chunks, each emitted with the few tokens of context its word
+// n-grams need, so memory does not grow with the document.
+const chunkTokens = 4096
+
+// flush emits the keys of the tokens held, the first ctx of which are
+// context already emitted. Unless final, it keeps the context the next
+// chunk needs and returns its length.
+func (z *Analyzer) flush(prefix []byte, ctx int, final bool, emit func([]byte, ngram.Kind, int)) int {
+	z.tokens = z.tokens[:0]
+	start := 0
+	for _, end := range z.spans {
+		z.tokens = append(z.tokens, z.arena[start:end:end])
+		start = end
+	}
+	z.ngr.EmitFrom(prefix, z.tokens, ctx, emit)
+	if final {
+		return 0
+	}
+	k := min(z.ngr.Context(), len(z.spans))
+	if k == 0 {
+		z.arena, z.spans = z.arena[:0], z.spans[:0]
+		return 0
+	}
+	cut := 0
+	if first := len(z.spans) - k; first > 0 {
+		cut = z.spans[first-1]
+	}
+	n := copy(z.arena, z.arena[cut:])
+	z.arena = z.arena[:n]
+	copy(z.spans, z.spans[len(z.spans)-k:])
+	z.spans = z.spans[:k]
+	for j := range z.spans {
+		z.spans[j] -= cut
+	}
+	return k
 }
 
 // Stats returns the figures collected so far.

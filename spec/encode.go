@@ -3,7 +3,6 @@ package spec
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 	"sync"
@@ -187,11 +186,12 @@ type Worker struct {
 // WorkerStats accumulates a worker's figures.
 type WorkerStats struct {
 	// Features and Unseen per order code.
-	Features map[int]int64
-	Unseen   map[int]int64
-	// Keys and UnseenKeys: distinct keys (by 64-bit hash) per order code.
-	Keys       map[int]map[uint64]struct{}
-	UnseenKeys map[int]map[uint64]struct{}
+	Features [MaxOrderCode + 1]int64
+	Unseen   [MaxOrderCode + 1]int64
+	// Keys and UnseenKeys: distinct keys (by 64-bit hash) per order code
+	// (nil unless the worker tracks keys).
+	Keys       *[MaxOrderCode + 1]map[uint64]struct{}
+	UnseenKeys *[MaxOrderCode + 1]map[uint64]struct{}
 	// TopUnseen counts unseen keys (capped at MaxTrackedUnseen keys).
 	TopUnseen map[string]int64
 	// Tally is the hashing-mode collision account.
@@ -206,11 +206,9 @@ const MaxTrackedUnseen = 200000
 // (distinct keys, unseen keys, collisions) as well as counts.
 func (e *Encoder) NewWorker(track bool) *Worker {
 	w := &Worker{e: e, z: e.analysis.NewAnalyzer(), acc: weight.NewAccumulator(), track: track}
-	w.Stats.Features = map[int]int64{}
-	w.Stats.Unseen = map[int]int64{}
 	if track {
-		w.Stats.Keys = map[int]map[uint64]struct{}{}
-		w.Stats.UnseenKeys = map[int]map[uint64]struct{}{}
+		w.Stats.Keys = new([MaxOrderCode + 1]map[uint64]struct{})
+		w.Stats.UnseenKeys = new([MaxOrderCode + 1]map[uint64]struct{})
 		w.Stats.TopUnseen = map[string]int64{}
 	}
 	if e.hasher != nil {
@@ -299,13 +297,15 @@ func (w *Worker) add(key []byte, code int) {
 	}
 }
 
-func addKey(m map[int]map[uint64]struct{}, code int, sum uint64) {
+func addKey(m *[MaxOrderCode + 1]map[uint64]struct{}, code int, sum uint64) {
 	s := m[code]
 	if s == nil {
 		s = map[uint64]struct{}{}
 		m[code] = s
 	}
-	s[sum] = struct{}{}
+	if _, ok := s[sum]; !ok {
+		s[sum] = struct{}{}
+	}
 }
 
 // Merge adds o's figures to w's.
@@ -316,14 +316,14 @@ func (s *WorkerStats) Merge(o *WorkerStats) {
 	for k, v := range o.Unseen {
 		s.Unseen[k] += v
 	}
-	mergeSets := func(dst, src map[int]map[uint64]struct{}) {
+	mergeSets := func(dst, src *[MaxOrderCode + 1]map[uint64]struct{}) {
 		for code, set := range src {
 			for h := range set {
 				addKey(dst, code, h)
 			}
 		}
 	}
-	if s.Keys != nil {
+	if s.Keys != nil && o.Keys != nil {
 		mergeSets(s.Keys, o.Keys)
 		mergeSets(s.UnseenKeys, o.UnseenKeys)
 		for k, v := range o.TopUnseen {
@@ -340,10 +340,11 @@ func (s *WorkerStats) Merge(o *WorkerStats) {
 // Codes returns the order codes present, ascending.
 func (s *WorkerStats) Codes() []int {
 	var codes []int
-	for k := range s.Features {
-		codes = append(codes, k)
+	for k, n := range s.Features {
+		if n > 0 {
+			codes = append(codes, k)
+		}
 	}
-	sort.Ints(codes)
 	return codes
 }
 

@@ -251,6 +251,9 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 				return nil, rep, err
 			}
 			c.Labels = lab
+			if n := len(l.parent.Content.Labels.Map); len(lab.Map) > n {
+				l.ext.NewLabels = lab.Map[n:]
+			}
 			rep = vocab.CutReport{Seen: w.counts.Len(), Kept: len(vv.Keys)}
 		} else {
 			v, r := w.counts.Build(l.cutoffs)

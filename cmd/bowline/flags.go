@@ -157,7 +157,7 @@ func (f *inputFlags) options(path string, def *spec.Input, set map[string]bool) 
 		}
 	}
 	if o.Format == corpus.Lines {
-		if o.Label != "" || o.ID != "" || len(f.text) > 0 {
+		if f.label != "" || f.id != "" || len(f.text) > 0 {
 			return o, usagef("--text, --label and --id need a tsv, csv or jsonl corpus; lines format has one text per line")
 		}
 		o.Text, o.Label, o.ID = nil, "", ""

@@ -5,6 +5,7 @@
 package main
 
 import (
+	"compress/gzip"
 	"errors"
 	"flag"
 	"fmt"
@@ -139,7 +140,8 @@ func exitCode(err error, stderr io.Writer) int {
 		return exitSpec
 	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se):
 		return exitData
-	case errors.As(err, &pathErr), errors.As(err, new(*ioError)):
+	case errors.As(err, &pathErr), errors.As(err, new(*ioError)),
+		errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, gzip.ErrChecksum), errors.Is(err, gzip.ErrHeader):
 		return exitIO
 	}
 	return exitFailure
