@@ -48,6 +48,12 @@ type bounded struct {
 	lost         int64 // bounds carried in from merged bounded Counts
 }
 
+// BoundedKeyBytes is the memory one key of a bounded Counts takes on the
+// Go heap besides the key's own bytes: its map entry, string header,
+// figures, overestimate and heap slot, all allocated up front
+// (TestBoundedKeyBytes measures it with runtime.MemStats).
+const BoundedKeyBytes = 136
+
 // MinCapacity is the smallest capacity NewBoundedCounts accepts.
 const MinCapacity = 16
 
@@ -84,9 +90,11 @@ type Pruning struct {
 	// Evicted counts table entries replaced by a new key (a key pruned
 	// twice counts twice).
 	Evicted int64
-	// EvictedDocs and EvictedCount are the document and occurrence counts
-	// those entries had when they were pruned, summed: the count mass
-	// pruned.
+	// EvictedDocs and EvictedCount are the documents and occurrences
+	// those entries really counted (their counts less the overestimate
+	// they entered with), summed: the count mass pruned, exactly. Kept
+	// entries' counts less their overestimates plus EvictedDocs make the
+	// number of (document, key) pairs counted.
 	EvictedDocs  int64
 	EvictedCount int64
 	// MaxDocs bounds the error: no key missing from the table was found in
@@ -185,7 +193,7 @@ func (b *bounded) update(c *Counts, key string, order int32, count, docs, err in
 	s := &c.stats[r]
 	m := s.docs
 	b.evicted++
-	b.evictedDocs += s.docs
+	b.evictedDocs += s.docs - b.errs[r] // the documents this entry really counted
 	b.evictedCount += s.count
 	delete(c.index, c.keys[r])
 	c.keys[r] = key

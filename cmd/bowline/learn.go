@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime/debug"
 	"strings"
 
 	"github.com/bowline/bowline/atomicfile"
@@ -11,6 +12,7 @@ import (
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
+	"github.com/bowline/bowline/vocab"
 )
 
 type outputFlags struct {
@@ -37,13 +39,18 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	c.fs.StringVar(&of.out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
 	c.fs.StringVar(&of.featureMap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
 	of.registerReport(c)
+	var lf lifecycleFlags
+	lf.register(c)
 	if err := c.parse(args); err != nil {
 		return err
 	}
 	if len(c.pos) != 1 {
 		return usagef("bowline learn needs one corpus file (got %d); see bowline learn --help", len(c.pos))
 	}
-	if of.out == "" || of.out == "-" {
+	if err := lf.check(c.set, &of); err != nil {
+		return err
+	}
+	if lf.countsOut == "" && (of.out == "" || of.out == "-") {
 		return usagef("bowline learn needs -o SPEC.json, the spec file to write")
 	}
 	if err := rf.check(); err != nil {
@@ -53,7 +60,16 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	path := c.pos[0]
-	copts, err := in.options(path, nil, c.set)
+	var old *spec.Spec
+	var oldInput *spec.Input
+	var err error
+	if lf.extend != "" {
+		if old, err = spec.Load(lf.extend); err != nil {
+			return err
+		}
+		oldInput = &old.Content.Input
+	}
+	copts, err := in.options(path, oldInput, c.set)
 	if err != nil {
 		return err
 	}
@@ -64,9 +80,43 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	if st.Mode == spec.ModeHashing && of.featureMap != "" {
 		return usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
 	}
-	learner, err := spec.NewLearner(st)
-	if err != nil {
+	var learner *spec.Learner
+	if old != nil {
+		if err := checkExtendFlags(old, lf.extend, st, c.set); err != nil {
+			return err
+		}
+		// Cutoffs not given anew are the old spec's.
+		cut, ov := st.Cutoffs, old.Content.Vocabulary
+		if ov != nil && !c.set["min-docs"] {
+			cut.MinDocs = ov.MinDocs
+		}
+		if ov != nil && !c.set["max-doc-share"] {
+			cut.MaxDocShare = ov.MaxDocShare
+		}
+		if ov != nil && !c.set["max-terms"] {
+			cut.MaxTerms = ov.MaxTerms
+		}
+		learner, err = spec.NewExtendLearner(old, cut, specInput(copts))
+		if err != nil {
+			return usagef("--extend %s: %v", lf.extend, err)
+		}
+	} else if learner, err = spec.NewLearner(st); err != nil {
 		return usagef("%v", err)
+	}
+	if lf.limit > 0 {
+		if learner.Content().Mode != spec.ModeVocabulary {
+			return usagef("--memory-limit: hashing mode keeps no per-key counts (its memory is set by --hash); the limit applies to vocabulary mode")
+		}
+		rss, nonGo := processMemory()
+		capacity, workers := pipeline.KeyCapacity(lf.limit, rf.workers, rss)
+		if capacity < vocab.MinCapacity {
+			return usagef("--memory-limit %s leaves no room for counting keys: bowline holds %.1f MiB before counting, and each worker needs about 7 MiB; give at least %d MiB", lf.memoryLimit, float64(max(rss, pipeline.NonHeapBytes))/(1<<20), (max(rss, pipeline.NonHeapBytes)+10<<20)>>20)
+		}
+		learner.LimitKeys(capacity)
+		rf.workers = workers
+		// Hold the Go heap, and what the runtime holds besides, below the
+		// limit less what lies outside the runtime (program pages).
+		debug.SetMemoryLimit(lf.limit - nonGo)
 	}
 	r, err := openCorpus(path, copts)
 	if err != nil {
@@ -74,7 +124,21 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	}
 	defer r.Close()
 	bar := newProgress(rf.progress, r.Size(), stderr, "learn")
-	s, fig, err := pipeline.Learn(r, learner, pipeline.LearnOptions{Name: path, Workers: rf.workers, Progress: bar.set})
+	lo := pipeline.LearnOptions{Name: path, Workers: rf.workers, Progress: bar.set}
+	if lf.countsOut != "" {
+		sh, fig, err := pipeline.Count(r, learner, lo)
+		bar.finish()
+		if err != nil {
+			return err
+		}
+		if err := sh.Save(lf.countsOut); err != nil {
+			return &ioError{err}
+		}
+		fig.WriteText(stderr)
+		fmt.Fprintf(stderr, "\ncount shard written to %s: %d documents, %d distinct keys, no cutoff applied (bowline merge applies them)\n", lf.countsOut, sh.Counts.Docs(), sh.Counts.Len())
+		return writeReport(of.report, fig)
+	}
+	s, fig, err := pipeline.Learn(r, learner, lo)
 	bar.finish()
 	if err != nil {
 		return err
@@ -88,8 +152,65 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		}
 	}
 	fig.WriteText(stderr)
+	if x := learner.Extension(); x != nil {
+		describeExtension(stderr, x, lf.extend)
+	}
+	if lf.limit > 0 {
+		describePruning(stderr, lf.limit, learner.KeyLimit(), s.Content.Vocabulary.Seen.Pruning)
+	}
 	fmt.Fprintf(stderr, "\nspec %s written to %s\n", s.ShortFingerprint(), of.out)
 	return writeReport(of.report, fig)
+}
+
+// lifecycleFlags are learn's flags for refreshing, bounding and sharding.
+type lifecycleFlags struct {
+	extend      string
+	memoryLimit string
+	limit       int64
+	countsOut   string
+}
+
+func (f *lifecycleFlags) register(c *command) {
+	c.fs.StringVar(&f.extend, "extend", "", "refresh OLD_SPEC: keep its settings and every column at its index, append new keys")
+	c.fs.StringVar(&f.memoryLimit, "memory-limit", "", "count within SIZE of memory (512MiB, 2GB, 100M), pruning the rarest keys past it")
+	c.fs.StringVar(&f.countsOut, "counts-out", "", "write the exact counts, before cutoffs, to FILE (a count shard for bowline merge) instead of a spec")
+}
+
+// minMemoryLimit is the smallest --memory-limit accepted.
+const minMemoryLimit = 16 << 20
+
+func (f *lifecycleFlags) check(set map[string]bool, of *outputFlags) error {
+	if f.memoryLimit != "" {
+		n, err := parseSize(f.memoryLimit)
+		if err != nil {
+			return usagef("--memory-limit: %v", err)
+		}
+		if n < minMemoryLimit {
+			return usagef("--memory-limit: %s is below the smallest limit, 16MiB", f.memoryLimit)
+		}
+		f.limit = n
+	}
+	if f.countsOut == "" {
+		return nil
+	}
+	for _, other := range []string{"extend", "memory-limit", "min-docs", "max-doc-share", "max-terms", "feature-map", "o"} {
+		if set[other] {
+			why := map[string]string{
+				"extend":        "a shard holds counts; extend the spec bowline merge writes",
+				"memory-limit":  "a shard holds exact counts, and a memory limit would prune them; split the corpus into more shards instead",
+				"min-docs":      "cutoffs apply when bowline merge writes the spec",
+				"max-doc-share": "cutoffs apply when bowline merge writes the spec",
+				"max-terms":     "cutoffs apply when bowline merge writes the spec",
+				"feature-map":   "a shard has no columns yet; bowline merge writes the feature map",
+				"o":             "--counts-out writes a count shard instead of a spec",
+			}[other]
+			return usagef("--%s does not go with --counts-out: %s", other, why)
+		}
+	}
+	if set["hash"] {
+		return usagef("--counts-out: count shards hold vocabulary counts; hashing mode has none")
+	}
+	return nil
 }
 
 func checkReportPath(p string) error {

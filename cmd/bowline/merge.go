@@ -1,0 +1,211 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"runtime"
+	"strconv"
+	"strings"
+
+	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/vocab"
+)
+
+func init() {
+	register("merge", "merge count shards (learn --counts-out) into one spec", runMerge)
+}
+
+// cutoffFlags are the vocabulary cutoffs merge applies.
+type cutoffFlags struct {
+	minDocs     int64
+	maxDocShare float64
+	maxTerms    int
+}
+
+func (f *cutoffFlags) register(c *command) {
+	c.fs.Int64Var(&f.minDocs, "min-docs", 1, "keep keys seen in at least N documents")
+	c.fs.Float64Var(&f.maxDocShare, "max-doc-share", 1.0, "drop keys in more than this share of documents")
+	c.fs.IntVar(&f.maxTerms, "max-terms", 0, "keep at most K keys, by document count (0: no limit)")
+}
+
+func (f *cutoffFlags) cutoffs() (vocab.Cutoffs, error) {
+	cut := vocab.Cutoffs{MinDocs: f.minDocs, MaxDocShare: f.maxDocShare, MaxTerms: f.maxTerms}
+	if err := cut.Validate(); err != nil {
+		return cut, usagef("%v", err)
+	}
+	return cut, nil
+}
+
+func runMerge(args []string, stdout, stderr io.Writer) error {
+	c := newCommand("merge", "SHARD... -o SPEC.json [flags]", "Merges count shards written by bowline learn --counts-out, applies the cutoffs and writes a spec:\nthe same spec, fingerprint included, as bowline learn on the shards' corpora in one pass.")
+	var cf cutoffFlags
+	var out, fmap string
+	cf.register(c)
+	c.fs.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	c.fs.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	if err := c.parse(args); err != nil {
+		return err
+	}
+	if len(c.pos) == 0 {
+		return usagef("bowline merge needs one or more count shards (written by bowline learn --counts-out)")
+	}
+	if out == "" || out == "-" {
+		return usagef("bowline merge needs -o SPEC.json, the spec file to write")
+	}
+	cut, err := cf.cutoffs()
+	if err != nil {
+		return err
+	}
+	sh, err := spec.MergeShards(c.pos)
+	if err != nil {
+		return err
+	}
+	s, rep, err := sh.Learn(cut)
+	if err != nil {
+		return err
+	}
+	if err := s.Save(out); err != nil {
+		return &ioError{err}
+	}
+	if fmap != "" {
+		if err := writeFeatureMap(fmap, s, 1); err != nil {
+			return err
+		}
+	}
+	fmt.Fprintf(stderr, "merged %d count shard(s): %d documents, %d distinct keys\n", len(c.pos), sh.Counts.Docs(), rep.Seen)
+	fmt.Fprintf(stderr, "cutoffs      below min-docs %d, above max-doc-share %d, over max-terms %d; kept %d\n", rep.BelowMinDocs, rep.AboveMaxShare, rep.OverMaxTerms, rep.Kept)
+	fmt.Fprintf(stderr, "\nspec %s written to %s\n", s.ShortFingerprint(), out)
+	return nil
+}
+
+// parseSize reads a memory size: a number with an optional unit. KiB, MiB,
+// GiB, TiB and the bare K, M, G, T are powers of 1024 (common practice,
+// as GNU sort -S reads them); KB, MB, GB, TB are powers of 1000; B or no
+// unit is bytes.
+func parseSize(s string) (int64, error) {
+	t := strings.TrimSpace(s)
+	i := 0
+	for i < len(t) && (t[i] >= '0' && t[i] <= '9' || t[i] == '.') {
+		i++
+	}
+	num, unit := t[:i], strings.ToUpper(strings.TrimSpace(t[i:]))
+	v, err := strconv.ParseFloat(num, 64)
+	if num == "" || err != nil {
+		return 0, fmt.Errorf("%q is not a size (say 512MiB, 2GB or 100M)", s)
+	}
+	mult := map[string]float64{"": 1, "B": 1,
+		"K": 1 << 10, "KIB": 1 << 10, "KB": 1e3,
+		"M": 1 << 20, "MIB": 1 << 20, "MB": 1e6,
+		"G": 1 << 30, "GIB": 1 << 30, "GB": 1e9,
+		"T": 1 << 40, "TIB": 1 << 40, "TB": 1e12}
+	m, ok := mult[unit]
+	if !ok {
+		return 0, fmt.Errorf("%q: unknown unit %q (use B, KiB, MiB, GiB, TiB, KB, MB, GB, TB, or K, M, G, T)", s, t[i:])
+	}
+	b := v * m
+	if b >= math.MaxInt64 {
+		return 0, fmt.Errorf("%q is too large", s)
+	}
+	return int64(b), nil
+}
+
+// extendFlagFields names the spec setting each analysis flag sets; with
+// --extend a flag may repeat the old spec's value but not change it.
+var extendFlagFields = []struct{ flag, field string }{
+	{"case", "tokens.case"}, {"unicode", "tokens.unicode"}, {"accents", "tokens.accents"},
+	{"numbers", "tokens.numbers"}, {"min-len", "tokens.min_len"}, {"max-len", "tokens.max_len"},
+	{"stop", "stop.words"}, {"drop-negations", "stop.keep_negations"}, {"stem", "stem"},
+	{"words", "ngrams.words"}, {"chars", "ngrams.chars"}, {"unseen", "vocabulary.unseen"},
+	{"tf", "weights.tf"}, {"idf", "weights.idf"}, {"norm", "weights.norm"},
+}
+
+// checkExtendFlags refuses analysis flags that contradict the spec being
+// extended, naming the flag.
+func checkExtendFlags(old *spec.Spec, oldPath string, st *spec.Settings, set map[string]bool) error {
+	for _, f := range []string{"hash", "seed", "signed"} {
+		if set[f] {
+			return usagef("--%s: --extend keeps the vocabulary mode of %s; hashing specs cannot be extended", f, oldPath)
+		}
+	}
+	nc, err := st.Content()
+	if err != nil {
+		return usagef("%v", err)
+	}
+	oldF := spec.SettingsFields(&old.Content, false)
+	newF := spec.SettingsFields(&nc, false)
+	for _, ef := range extendFlagFields {
+		if !set[ef.flag] {
+			continue
+		}
+		for i := range oldF {
+			if oldF[i].Name == ef.field && oldF[i].Value != newF[i].Value {
+				return usagef("--%s: %s was learned with %s %s, the flag asks for %s; --extend keeps every analysis setting of the spec it extends (leave the flag out, or learn a new spec)", ef.flag, oldPath, ef.field, oldF[i].Value, newF[i].Value)
+			}
+		}
+	}
+	return nil
+}
+
+// describeExtension prints the refresh account of learn --extend.
+func describeExtension(w io.Writer, x *spec.Extension, oldPath string) {
+	fmt.Fprintf(w, "\nextends      %s (%s)\n", oldPath, strings.TrimPrefix(x.Parent, "sha256:")[:12])
+	fmt.Fprintf(w, "columns      %d from the parent at their index: %d kept, %d retired (now below the cutoffs)", x.ParentKeys, x.Kept, x.Retired)
+	if x.Revived > 0 {
+		fmt.Fprintf(w, ", %d of them revived", x.Revived)
+	}
+	fmt.Fprintf(w, "; %d appended", x.Appended)
+	if x.OverMaxTerms > 0 {
+		fmt.Fprintf(w, " (%d more left out by --max-terms)", x.OverMaxTerms)
+	}
+	fmt.Fprintln(w)
+	if len(x.NewLabels) > 0 {
+		fmt.Fprintf(w, "labels       appended %s\n", strings.Join(x.NewLabels, ", "))
+	}
+}
+
+// describePruning prints what bounded counting dropped.
+func describePruning(w io.Writer, limit int64, capacity int, p *spec.Pruning) {
+	fmt.Fprintf(w, "\nmemory limit %s: at most %d distinct keys held at once\n", formatSize(limit), capacity)
+	if p == nil {
+		fmt.Fprintln(w, "pruned       nothing: every count is exact")
+		return
+	}
+	fmt.Fprintf(w, "pruned       %d keys (space-saving), holding %d document counts and %d occurrences\n", p.Evicted, p.EvictedDocs, p.EvictedCount)
+	fmt.Fprintf(w, "error bound  no pruned key was in more than %d documents, and no kept count is more than %d too high;\n", p.MaxDocs, p.MaxDocs)
+	fmt.Fprintf(w, "             kept counts are exact but for %d keys; with --min-docs above %d no key that truly passes is missing\n", p.InexactKeys, p.MaxDocs)
+}
+
+func formatSize(b int64) string {
+	switch {
+	case b >= 1<<30 && b%(1<<30) == 0:
+		return fmt.Sprintf("%dGiB", b>>30)
+	case b >= 1<<20 && b%(1<<20) == 0:
+		return fmt.Sprintf("%dMiB", b>>20)
+	}
+	return fmt.Sprintf("%d bytes", b)
+}
+
+// processMemory returns the process's resident set size and the part of
+// it outside the Go runtime's own memory (program text and data), from
+// /proc/self/statm on Linux; elsewhere both are 0.
+func processMemory() (rss, nonGo int64) {
+	b, err := os.ReadFile("/proc/self/statm")
+	if err != nil {
+		return 0, 0
+	}
+	f := strings.Fields(string(b))
+	if len(f) < 2 {
+		return 0, 0
+	}
+	pages, err := strconv.ParseInt(f[1], 10, 64)
+	if err != nil {
+		return 0, 0
+	}
+	rss = pages * int64(os.Getpagesize())
+	var ms runtime.MemStats
+	runtime.ReadMemStats(&ms)
+	nonGo = rss - int64(ms.Sys-ms.HeapReleased)
+	return rss, max(nonGo, 0)
+}
