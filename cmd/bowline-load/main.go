@@ -26,6 +26,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"net"
 	"net/http"
 	"net/url"
@@ -320,7 +321,7 @@ func (r *levelResult) quantile(q float64) time.Duration {
 	if len(r.latencies) == 0 {
 		return 0
 	}
-	i := int(q*float64(len(r.latencies))+0.5) - 1 // nearest rank
+	i := int(math.Ceil(q*float64(len(r.latencies)))) - 1 // nearest rank: ceil(q*n)
 	return r.latencies[max(0, min(i, len(r.latencies)-1))]
 }
 
