@@ -241,6 +241,9 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 	c.Labels = labels
 	var rep vocab.CutReport
 	if c.Mode == ModeVocabulary {
+		// Under a key limit the cutoffs apply to the documents each kept
+		// key really counted (vocab.Counts.Settle).
+		w.counts.Settle()
 		vv := *c.Vocabulary
 		if l.parent != nil {
 			if err := l.extend(&vv, w.counts); err != nil {

@@ -168,9 +168,11 @@ type Pruning struct {
 	EvictedDocs  int64 `json:"evicted_docs"`
 	EvictedCount int64 `json:"evicted_count"`
 	// MaxDocs is the error bound: no dropped key was found in more than
-	// MaxDocs documents, and no kept document count is too high by more.
+	// MaxDocs documents, and no kept document count is too low by more
+	// (kept counts are the documents counted since the key last entered
+	// the table: never too high).
 	MaxDocs int64 `json:"max_docs"`
-	// InexactKeys counts kept keys whose document count may be too high;
+	// InexactKeys counts kept keys whose document count may be too low;
 	// every other count is exact.
 	InexactKeys int64 `json:"inexact_keys"`
 }

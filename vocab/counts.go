@@ -59,6 +59,9 @@ func (c *Counts) Add(key []byte, order int) {
 			s.last = c.serial
 			s.docs++
 			if c.b != nil {
+				if c.b.settled != nil {
+					panic("vocab: counting on a settled Counts")
+				}
 				c.b.down(c, int(s.hpos))
 			}
 		}

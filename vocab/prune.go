@@ -31,9 +31,17 @@ import (
 // ordered by document count does it, which is simpler and O(log capacity)
 // per document-count change.
 //
-// Occurrence counts (Term.Count) follow along but carry no bound: a key
-// that replaced another starts its occurrence count afresh, so it is a
-// lower bound for such keys.
+// Each table entry also knows the documents it really counted since it
+// entered: its count less the overestimate it entered with. Settle turns
+// the table into those counts, which are lower bounds: exact for a key that
+// never replaced another, and short by at most the bound otherwise. Cutoffs
+// applied to them never keep a key below a min-docs cutoff, and keep every
+// key found in at least min-docs plus the bound documents; a key that
+// merely arrived late, with an inflated count, is not mistaken for a
+// frequent one.
+//
+// Occurrence counts (Term.Count) follow along the same way: a key that
+// replaced another starts its occurrence count afresh.
 
 // bounded is the pruning state of a bounded Counts.
 type bounded struct {
@@ -46,6 +54,7 @@ type bounded struct {
 	evictedDocs  int64 // their document counts, summed
 	evictedCount int64 // their occurrence counts, summed
 	lost         int64 // bounds carried in from merged bounded Counts
+	settled      *Pruning
 }
 
 // BoundedKeyBytes is the memory one key of a bounded Counts takes on the
@@ -98,13 +107,12 @@ type Pruning struct {
 	EvictedDocs  int64
 	EvictedCount int64
 	// MaxDocs bounds the error: no key missing from the table was found in
-	// more than MaxDocs documents, and no kept document count exceeds the
-	// true one by more than MaxDocs. 0 means nothing was pruned and every
-	// count is exact.
+	// more than MaxDocs documents, and no kept document count is off by
+	// more than MaxDocs (too high before Settle, too low after). 0 means
+	// nothing was pruned and every count is exact.
 	MaxDocs int64
-	// InexactKeys counts kept keys whose document count may be an
-	// overestimate (those that entered by replacing another key). The
-	// others are exact.
+	// InexactKeys counts kept keys whose document count may be off (those
+	// that entered by replacing another key). The others are exact.
 	InexactKeys int
 }
 
@@ -114,6 +122,9 @@ func (c *Counts) Pruning() Pruning {
 	b := c.b
 	if b == nil {
 		return Pruning{}
+	}
+	if b.settled != nil {
+		return *b.settled
 	}
 	p := Pruning{Capacity: b.capacity, Evicted: b.evicted, EvictedDocs: b.evictedDocs, EvictedCount: b.evictedCount}
 	if b.evicted > 0 && len(b.heap) > 0 {
@@ -126,6 +137,26 @@ func (c *Counts) Pruning() Pruning {
 		}
 	}
 	return p
+}
+
+// Settle ends counting on a bounded Counts: every kept key's document
+// count becomes the documents its entry really counted (a lower bound of
+// the true count, see above), and its pruning figures are frozen. Further
+// Add, EndDoc or Merge calls panic. Settle does nothing on an unbounded
+// Counts or one settled already. It closes an unfinished document first.
+func (c *Counts) Settle() {
+	b := c.b
+	if b == nil || b.settled != nil {
+		return
+	}
+	if c.open {
+		c.EndDoc()
+	}
+	p := c.Pruning()
+	for i := range c.stats {
+		c.stats[i].docs -= b.errs[i]
+	}
+	b.settled = &p
 }
 
 // endDoc moves the open document's new keys into the table, each once.
@@ -171,6 +202,9 @@ func (c *Counts) mergePruned(o *Counts) {
 // documents with count more occurrences; err is the overestimate it
 // already carries.
 func (b *bounded) update(c *Counts, key string, order int32, count, docs, err int64) {
+	if b.settled != nil {
+		panic("vocab: counting on a settled Counts")
+	}
 	if i, ok := c.index[key]; ok {
 		s := &c.stats[i]
 		s.count += count

@@ -173,8 +173,8 @@ func describePruning(w io.Writer, limit int64, capacity int, p *spec.Pruning) {
 		return
 	}
 	fmt.Fprintf(w, "pruned       %d keys (space-saving), holding %d document counts and %d occurrences\n", p.Evicted, p.EvictedDocs, p.EvictedCount)
-	fmt.Fprintf(w, "error bound  no pruned key was in more than %d documents, and no kept count is more than %d too high;\n", p.MaxDocs, p.MaxDocs)
-	fmt.Fprintf(w, "             kept counts are exact but for %d keys; with --min-docs above %d no key that truly passes is missing\n", p.InexactKeys, p.MaxDocs)
+	fmt.Fprintf(w, "error bound  no pruned key was in more than %d documents; kept counts are never too high, exact but for\n", p.MaxDocs)
+	fmt.Fprintf(w, "             %d keys, and at most %d too low: every key in --min-docs + %d documents or more is kept\n", p.InexactKeys, p.MaxDocs, p.MaxDocs)
 }
 
 func formatSize(b int64) string {
