@@ -207,3 +207,34 @@ func BenchmarkEncodeHashing(b *testing.B) {
 type ioDiscard struct{}
 
 func (ioDiscard) Write(p []byte) (int, error) { return len(p), nil }
+
+// failAfter is a writer that fails once n bytes were written (a full disk).
+type failAfter struct{ n int }
+
+var errDiskFull = errors.New("no space left on device")
+
+func (f *failAfter) Write(p []byte) (int, error) {
+	if len(p) > f.n {
+		w := f.n
+		f.n = 0
+		return w, errDiskFull
+	}
+	f.n -= len(p)
+	return len(p), nil
+}
+
+// TestWriteErrorEndsRun: a write error ends the run with that error,
+// whatever the worker count, and the reader and workers stop.
+func TestWriteErrorEndsRun(t *testing.T) {
+	train, test := demoCorpus(t, 3000)
+	s := learnSpec(t, train, spec.ModeVocabulary, 2)
+	enc, _ := spec.NewEncoder(s)
+	for _, w := range []int{1, 2, 4} {
+		for _, n := range []int{0, 100, 50000} {
+			_, err := Encode(reader(t, test), enc, &failAfter{n: n}, EncodeOptions{Workers: w})
+			if !errors.Is(err, errDiskFull) {
+				t.Fatalf("workers %d, fail after %d: err = %v", w, n, err)
+			}
+		}
+	}
+}

@@ -27,6 +27,9 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	c.fs.StringVar(&of.featureMap, "feature-map", "", "also write the feature map to FILE")
 	c.fs.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
 	of.registerReport(c)
+	if err := refuseLearnFlags(c, args, specPath); err != nil {
+		return err
+	}
 	if err := c.parse(args); err != nil {
 		return err
 	}

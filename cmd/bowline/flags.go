@@ -495,3 +495,78 @@ func openCorpus(path string, o corpus.Options) (*corpus.Reader, error) {
 	}
 	return nil, &usageError{err.Error()}
 }
+
+// refuseLearnFlags refuses analysis flags given to a command that applies a
+// spec: the spec's settings are frozen, so a different tokenizer, stop list,
+// n-gram range or weighting would contradict it. The message names the flag
+// and what the spec says.
+func refuseLearnFlags(c *command, args []string, specPath string) error {
+	var an analysisFlags
+	learnFS := flag.NewFlagSet("learn", flag.ContinueOnError)
+	an.register(learnFS)
+	for _, a := range args {
+		if a == "--" {
+			break
+		}
+		if !strings.HasPrefix(a, "-") || a == "-" {
+			continue
+		}
+		name := strings.TrimLeft(a, "-")
+		name, _, _ = strings.Cut(name, "=")
+		if c.fs.Lookup(name) != nil || learnFS.Lookup(name) == nil {
+			continue
+		}
+		sp := specPath
+		for j, b := range args {
+			if (b == "--spec" || b == "-spec") && j+1 < len(args) {
+				sp = args[j+1]
+			} else if v, ok := strings.CutPrefix(b, "--spec="); ok {
+				sp = v
+			}
+		}
+		said := ""
+		if s, err := spec.Load(sp); err == nil {
+			said = " (the spec says " + specSetting(name, &s.Content) + ")"
+		}
+		return usagef("--%s is a learn setting: bowline %s applies the spec's frozen settings%s; learn a new spec to change it", name, c.name, said)
+	}
+	return nil
+}
+
+// specSetting describes the spec's value for an analysis flag.
+func specSetting(name string, c *spec.Content) string {
+	t := c.Tokens
+	switch name {
+	case "case":
+		return "case " + t.Case
+	case "unicode":
+		return "unicode " + t.Unicode
+	case "accents":
+		return "accents " + t.Accents
+	case "numbers":
+		return "numbers " + t.Numbers
+	case "min-len", "max-len":
+		return fmt.Sprintf("token length %d-%d", t.MinLen, t.MaxLen)
+	case "stop", "drop-negations":
+		if len(c.Stop.Words) == 0 {
+			return "no stop words"
+		}
+		return fmt.Sprintf("stop %s, %d words, negations kept %v", strings.Join(c.Stop.Sources, " "), len(c.Stop.Words), c.Stop.KeepNegations)
+	case "stem":
+		return "stem " + c.Stem
+	case "words", "chars":
+		return "words " + c.NGrams.Words + ", chars " + c.NGrams.Chars
+	case "tf", "idf", "norm":
+		return "tf " + c.Weights.TF + ", idf " + c.Weights.IDF + ", norm " + c.Weights.Norm
+	case "hash", "seed", "signed":
+		if h := c.Hashing; h != nil {
+			return fmt.Sprintf("hashing width %d, seed %d, signed %v", h.Width, h.Seed, h.Signed)
+		}
+		return "vocabulary mode"
+	default:
+		if v := c.Vocabulary; v != nil {
+			return fmt.Sprintf("min-docs %d, max-doc-share %g, max-terms %d, unseen %s", v.MinDocs, v.MaxDocShare, v.MaxTerms, v.Unseen)
+		}
+		return "hashing mode"
+	}
+}

@@ -76,6 +76,10 @@ func init() {
 var signalHook atomic.Pointer[func(os.Signal)]
 
 func main() {
+	// A closed stdout pipe (| head) makes writes fail with EPIPE instead of
+	// killing the process, so deferred clean-up runs and the run ends
+	// quietly (see exitCode).
+	signal.Notify(make(chan os.Signal, 1), syscall.SIGPIPE)
 	sigs := make(chan os.Signal, 1)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
 	go func() {
