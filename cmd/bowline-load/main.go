@@ -152,22 +152,24 @@ func run(args []string, out io.Writer) error {
 	}
 
 	var inproc map[int]float64
+	var lib *bowline.Encoder
 	if c.specPath != "" {
-		enc, err := bowline.Load(c.specPath)
+		lib, err = bowline.Load(c.specPath)
 		if err != nil {
 			return err
 		}
-		if enc.Fingerprint() != fingerprint {
-			return fmt.Errorf("--spec %s has fingerprint %s but the server encodes with %s", c.specPath, short(enc.Fingerprint()), short(fingerprint))
+		if lib.Fingerprint() != fingerprint {
+			return fmt.Errorf("--spec %s has fingerprint %s but the server encodes with %s", c.specPath, short(lib.Fingerprint()), short(fingerprint))
 		}
 		inproc = map[int]float64{}
-		for _, n := range c.clients {
-			inproc[n] = inProcessRate(enc, texts, n, c.inProcess)
-		}
 	}
 
 	var results []levelResult
 	for _, n := range c.clients {
+		if lib != nil {
+			// Right before the level, so both see the same machine load.
+			inproc[n] = inProcessRate(lib, texts, n, c.inProcess)
+		}
 		results = append(results, runLevel(&c, n, bodies))
 	}
 
