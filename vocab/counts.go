@@ -303,6 +303,9 @@ func Survivors(hist, top []int64, docs int64, cut Cutoffs) (lo, hi int64) {
 		if bhi > tmin {
 			bhi = tmin
 		}
+		if docs > 0 && bhi > docs {
+			bhi = docs // no key is in more documents than there are
+		}
 		if blo > bhi {
 			continue
 		}

@@ -198,11 +198,17 @@ func ReadShard(r io.Reader, name string, into *Counts) (*ShardHeader, error) {
 	}
 	b, err = next()
 	var end shardEnd
-	if err != nil || json.Unmarshal(b, &end) != nil || end.End == nil || *end.End != h.Keys {
-		return &h, fail(line+1, "truncated or damaged: no {\"end\":%d} line after the keys", h.Keys)
+	if err != nil {
+		return &h, fail(line+1, "truncated: no {\"end\":%d} line after the keys (%v)", h.Keys, err)
 	}
-	if _, err := next(); err != io.EOF {
-		return &h, fail(line+1, "data after the end line")
+	if json.Unmarshal(b, &end) != nil || end.End == nil || *end.End != h.Keys {
+		return &h, fail(line, "damaged: %.40q where the {\"end\":%d} line belongs", b, h.Keys)
+	}
+	switch _, err := next(); {
+	case err == nil:
+		return &h, fail(line, "data after the end line")
+	case err != io.EOF:
+		return &h, fail(line+1, "damaged after the end line: %v", err)
 	}
 	if _, err := io.Copy(io.Discard, zr); err != nil {
 		return &h, fail(0, "%v", err)
