@@ -2,6 +2,7 @@ package hashing
 
 import (
 	"math"
+	"math/bits"
 	"slices"
 )
 
@@ -63,34 +64,143 @@ type Collisions struct {
 // hashing the chance that this happens at all among n distinct keys is about
 // n²/2^65: below 3·10⁻⁸ for a million keys.
 //
+// The sums live in an open-addressing table with linear probing, indexed
+// by the sum itself (already uniformly distributed), at most half full: 8
+// to 16 bytes per distinct key, and no hashing work beyond the sum. Added
+// sums are buffered and inserted a few thousand at a time, ordered by the
+// region of the table they go to (a counting sort on the top bits of their
+// slot), so that inserting touches one cache-sized region after another
+// instead of the whole table at random: that is what makes exact
+// collision accounting cheap enough to run on every feature.
+//
 // The zero Tally is not ready for use; call NewTally. A Tally is not safe for
 // concurrent use: give each goroutine its own and Merge them.
 type Tally struct {
-	sums map[uint64]struct{}
+	slots []uint64 // 0 = empty; len is a power of two
+	n     int      // non-zero sums in slots
+	zero  bool     // the sum 0 was added
+	buf   []uint64 // added, not yet inserted
+	tmp   []uint64 // buf ordered by region
 }
+
+// tallyBuffer is how many sums a Tally buffers before inserting them.
+const tallyBuffer = 1 << 14
+
+// tallyRegions is the number of regions buffered sums are ordered by.
+const tallyRegions = 256
 
 // NewTally returns an empty Tally.
 func NewTally() *Tally {
-	return &Tally{sums: make(map[uint64]struct{})}
+	return &Tally{slots: make([]uint64, 1024), buf: make([]uint64, 0, tallyBuffer)}
 }
 
 // Add records the hash sum of one key occurrence. Adding the same sum again
 // changes nothing.
 func (t *Tally) Add(sum uint64) {
-	t.sums[sum] = struct{}{}
+	t.buf = append(t.buf, sum)
+	if len(t.buf) == cap(t.buf) {
+		t.flush()
+	}
+}
+
+// flush inserts the buffered sums, region by region.
+func (t *Tally) flush() {
+	if len(t.buf) == 0 {
+		return
+	}
+	mask := uint64(len(t.slots) - 1)
+	shift := uint(bits.Len64(mask))
+	if shift > 8 {
+		shift -= 8
+	} else {
+		shift = 0
+	}
+	var count [tallyRegions + 1]int
+	for _, s := range t.buf {
+		count[((s&mask)>>shift)+1]++
+	}
+	for i := 1; i <= tallyRegions; i++ {
+		count[i] += count[i-1]
+	}
+	if cap(t.tmp) < len(t.buf) {
+		t.tmp = make([]uint64, len(t.buf), cap(t.buf))
+	}
+	tmp := t.tmp[:len(t.buf)]
+	for _, s := range t.buf {
+		r := (s & mask) >> shift
+		tmp[count[r]] = s
+		count[r]++
+	}
+	t.buf = t.buf[:0]
+	for _, s := range tmp {
+		t.insert(s)
+	}
+}
+
+func (t *Tally) insert(sum uint64) {
+	if sum == 0 {
+		t.zero = true
+		return
+	}
+	mask := uint64(len(t.slots) - 1)
+	for i := sum & mask; ; i = (i + 1) & mask {
+		switch t.slots[i] {
+		case sum:
+			return
+		case 0:
+			t.slots[i] = sum
+			t.n++
+			if 2*t.n > len(t.slots) {
+				t.grow()
+			}
+			return
+		}
+	}
+}
+
+func (t *Tally) grow() {
+	old := t.slots
+	t.slots = make([]uint64, 2*len(old))
+	mask := uint64(len(t.slots) - 1)
+	for _, s := range old {
+		if s == 0 {
+			continue
+		}
+		i := s & mask
+		for t.slots[i] != 0 {
+			i = (i + 1) & mask
+		}
+		t.slots[i] = s
+	}
+}
+
+// each calls fn for every recorded sum.
+func (t *Tally) each(fn func(uint64)) {
+	t.flush()
+	if t.zero {
+		fn(0)
+	}
+	for _, s := range t.slots {
+		if s != 0 {
+			fn(s)
+		}
+	}
 }
 
 // Merge adds every sum recorded in o to t.
 func (t *Tally) Merge(o *Tally) {
-	for s := range o.sums {
-		t.sums[s] = struct{}{}
-	}
+	o.each(t.Add)
+	t.flush()
 }
 
 // Len returns the number of distinct sums recorded, that is the number of
 // distinct keys seen (see the note on equal sums in the type's doc).
 func (t *Tally) Len() int {
-	return len(t.sums)
+	t.flush()
+	if t.zero {
+		return t.n + 1
+	}
+	return t.n
 }
 
 // denseLimit bounds the memory, in bytes, of the per-bucket counter array
@@ -102,7 +212,7 @@ const denseLimit = 1 << 24
 // fall into width buckets, reducing each sum with BucketOf. It can be called
 // for as many widths as needed. width must be at least 1.
 func (t *Tally) Collisions(width uint64) Collisions {
-	n := len(t.sums)
+	n := t.Len()
 	c := Collisions{
 		Width:            width,
 		Keys:             int64(n),
@@ -115,7 +225,7 @@ func (t *Tally) Collisions(width uint64) Collisions {
 	if width <= denseLimit || width <= 4*uint64(n) {
 		// One saturating counter per bucket: 0, 1 or 2 (= more than one).
 		cnt := make([]uint8, width)
-		for s := range t.sums {
+		t.each(func(s uint64) {
 			b := BucketOf(s, width)
 			switch cnt[b] {
 			case 0:
@@ -124,17 +234,15 @@ func (t *Tally) Collisions(width uint64) Collisions {
 			case 1:
 				cnt[b] = 2
 			}
-		}
-		for s := range t.sums {
+		})
+		t.each(func(s uint64) {
 			if cnt[BucketOf(s, width)] == 2 {
 				c.Colliding++
 			}
-		}
+		})
 	} else {
 		bs := make([]uint64, 0, n)
-		for s := range t.sums {
-			bs = append(bs, BucketOf(s, width))
-		}
+		t.each(func(s uint64) { bs = append(bs, BucketOf(s, width)) })
 		slices.Sort(bs)
 		for i := 0; i < len(bs); {
 			j := i + 1

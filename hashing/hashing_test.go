@@ -597,3 +597,35 @@ func BenchmarkTallyCollisions(b *testing.B) {
 		})
 	}
 }
+
+// TestTallyMatchesMap: the open-addressing table counts exactly the
+// distinct sums a Go map counts, with duplicates, the sum 0, growth and
+// merges.
+func TestTallyMatchesMap(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	a, b := NewTally(), NewTally()
+	want := map[uint64]bool{}
+	for i := 0; i < 200000; i++ {
+		s := rng.Uint64() % 150000 // many repeats
+		if i%1000 == 0 {
+			s = 0
+		}
+		if i%2 == 0 {
+			a.Add(s)
+		} else {
+			b.Add(s)
+		}
+		want[s] = true
+	}
+	a.Merge(b)
+	if a.Len() != len(want) {
+		t.Fatalf("Len %d, want %d", a.Len(), len(want))
+	}
+	got := map[uint64]bool{}
+	a.each(func(s uint64) { got[s] = true })
+	for s := range want {
+		if !got[s] {
+			t.Fatalf("sum %d lost", s)
+		}
+	}
+}

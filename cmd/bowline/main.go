@@ -13,6 +13,7 @@ import (
 	"os"
 	"os/signal"
 	"runtime/debug"
+	"runtime/pprof"
 	"sort"
 	"sync/atomic"
 	"syscall"
@@ -92,7 +93,28 @@ func main() {
 		fmt.Fprintf(os.Stderr, "bowline: stopped by %v; no partial output left\n", s)
 		os.Exit(130)
 	}()
-	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	os.Exit(profiled(func() int { return run(os.Args[1:], os.Stdout, os.Stderr) }))
+}
+
+// profiled runs fn, writing a CPU profile to $BOWLINE_CPUPROFILE and a heap
+// profile to $BOWLINE_MEMPROFILE when they are set (for pprof; see
+// DEVELOPERS.md).
+func profiled(fn func() int) int {
+	if p := os.Getenv("BOWLINE_CPUPROFILE"); p != "" {
+		f, err := os.Create(p)
+		if err == nil {
+			pprof.StartCPUProfile(f)
+			defer func() { pprof.StopCPUProfile(); f.Close() }()
+		}
+	}
+	code := fn()
+	if p := os.Getenv("BOWLINE_MEMPROFILE"); p != "" {
+		if f, err := os.Create(p); err == nil {
+			pprof.WriteHeapProfile(f)
+			f.Close()
+		}
+	}
+	return code
 }
 
 func run(args []string, stdout, stderr io.Writer) int {
