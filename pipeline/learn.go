@@ -304,12 +304,13 @@ const (
 // keys the bounded counts may hold, and the number of workers (at most
 // workers) that leaves room for them; inUse is the memory the process
 // holds already (its resident set; 0 if unknown, then NonHeapBytes is
-// assumed). Workers are dropped until the keys get at least half of what
+// assumed). A sixteenth of the limit is left for the garbage collector's
+// lag. Workers are dropped until the keys get at least half of what
 // is left. The capacity is below vocab.MinCapacity when the limit is too
 // small to count anything.
 func KeyCapacity(limit int64, workers int, inUse int64) (capacity, nworkers int) {
 	nw := workerCount(workers)
-	heap := limit - max(inUse, NonHeapBytes) - baseHeapBytes
+	heap := limit - limit/16 - max(inUse, NonHeapBytes) - baseHeapBytes
 	for nw > 1 && heap-int64(nw)*workerHeapBytes < heap/2 {
 		nw--
 	}

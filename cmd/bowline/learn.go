@@ -110,13 +110,18 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		rss, nonGo := processMemory()
 		capacity, workers := pipeline.KeyCapacity(lf.limit, rf.workers, rss)
 		if capacity < vocab.MinCapacity {
-			return usagef("--memory-limit %s leaves no room for counting keys: bowline holds %.1f MiB before counting, and each worker needs about 7 MiB; give at least %d MiB", lf.memoryLimit, float64(max(rss, pipeline.NonHeapBytes))/(1<<20), (max(rss, pipeline.NonHeapBytes)+10<<20)>>20)
+			least := lf.limit >> 20
+			for c, _ := pipeline.KeyCapacity(least<<20, 1, rss); c < 4096; c, _ = pipeline.KeyCapacity(least<<20, 1, rss) {
+				least++
+			}
+			return usagef("--memory-limit %s leaves no room for counting keys: bowline holds %.1f MiB before counting, and a worker needs about 7 MiB; give at least %dMiB", lf.memoryLimit, float64(max(rss, pipeline.NonHeapBytes))/(1<<20), least)
 		}
 		learner.LimitKeys(capacity)
 		rf.workers = workers
 		// Hold the Go heap, and what the runtime holds besides, below the
-		// limit less what lies outside the runtime (program pages).
-		debug.SetMemoryLimit(lf.limit - nonGo)
+		// limit less what lies outside the runtime (program pages), with a
+		// sixteenth to spare for the collector's lag.
+		debug.SetMemoryLimit(lf.limit - nonGo - lf.limit/16)
 	}
 	r, err := openCorpus(path, copts)
 	if err != nil {

@@ -167,7 +167,11 @@ func describeExtension(w io.Writer, x *spec.Extension, oldPath string) {
 
 // describePruning prints what bounded counting dropped.
 func describePruning(w io.Writer, limit int64, capacity int, p *spec.Pruning) {
-	fmt.Fprintf(w, "\nmemory limit %s: at most %d distinct keys held at once\n", formatSize(limit), capacity)
+	fmt.Fprintf(w, "\nmemory limit %s: at most %d distinct keys held at once", formatSize(limit), capacity)
+	if peak := peakMemory(); peak > 0 {
+		fmt.Fprintf(w, "; peak memory %.1f MiB (resident)", float64(peak)/(1<<20))
+	}
+	fmt.Fprintln(w)
 	if p == nil {
 		fmt.Fprintln(w, "pruned       nothing: every count is exact")
 		return
@@ -208,4 +212,25 @@ func processMemory() (rss, nonGo int64) {
 	runtime.ReadMemStats(&ms)
 	nonGo = rss - int64(ms.Sys-ms.HeapReleased)
 	return rss, max(nonGo, 0)
+}
+
+// peakMemory returns the process's peak resident set size (VmHWM in
+// /proc/self/status, Linux), or 0 when unknown.
+func peakMemory() int64 {
+	b, err := os.ReadFile("/proc/self/status")
+	if err != nil {
+		return 0
+	}
+	for _, line := range strings.Split(string(b), "\n") {
+		if v, ok := strings.CutPrefix(line, "VmHWM:"); ok {
+			f := strings.Fields(v)
+			if len(f) == 2 && f[1] == "kB" {
+				n, err := strconv.ParseInt(f[0], 10, 64)
+				if err == nil {
+					return n << 10
+				}
+			}
+		}
+	}
+	return 0
 }
