@@ -18,6 +18,9 @@ type File struct {
 	Path string
 	f    *os.File
 	done bool
+	// direct is set for targets that are not regular files: written in
+	// place, closed by Commit and Abort.
+	direct bool
 }
 
 var (
@@ -37,8 +40,19 @@ func Create(path string) (*File, error) {
 	if dir == "" {
 		dir = "."
 	}
-	if st, err := os.Stat(path); err == nil && st.IsDir() {
-		return nil, fmt.Errorf("%s: is a directory", path)
+	if st, err := os.Stat(path); err == nil {
+		if st.IsDir() {
+			return nil, fmt.Errorf("%s: is a directory", path)
+		}
+		if !st.Mode().IsRegular() {
+			// A device or a named pipe (/dev/null, a FIFO): write to it
+			// directly; renaming over it would replace it.
+			f, err := os.OpenFile(path, os.O_WRONLY, 0)
+			if err != nil {
+				return nil, fmt.Errorf("cannot write %s: %w", path, unwrapPath(err))
+			}
+			return &File{Path: path, f: f, direct: true}, nil
+		}
 	}
 	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
 	if err != nil {
@@ -77,6 +91,9 @@ func (a *File) Commit() error {
 	if a.f == os.Stdout {
 		return nil
 	}
+	if a.direct {
+		return a.f.Close()
+	}
 	forget(a)
 	tmp := a.f.Name()
 	if err := a.f.Sync(); err != nil {
@@ -107,6 +124,10 @@ func (a *File) Abort() {
 	}
 	a.done = true
 	if a.f == os.Stdout {
+		return
+	}
+	if a.direct {
+		a.f.Close()
 		return
 	}
 	forget(a)

@@ -78,3 +78,19 @@ func TestCreateInMissingFolder(t *testing.T) {
 		t.Fatal("want error")
 	}
 }
+
+// TestDeviceIsWrittenInPlace: /dev/null stays a device.
+func TestDeviceIsWrittenInPlace(t *testing.T) {
+	f, err := Create(os.DevNull)
+	if err != nil {
+		t.Skipf("cannot open %s: %v", os.DevNull, err)
+	}
+	io.WriteString(f, "rows\n")
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	st, err := os.Stat(os.DevNull)
+	if err != nil || st.Mode().IsRegular() {
+		t.Fatalf("%s is now %v (%v)", os.DevNull, st.Mode(), err)
+	}
+}
