@@ -12,7 +12,6 @@ import (
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
-	"github.com/bowline/bowline/vocab"
 )
 
 type outputFlags struct {
@@ -108,13 +107,13 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 			return usagef("--memory-limit: hashing mode keeps no per-key counts (its memory is set by --hash); the limit applies to vocabulary mode")
 		}
 		rss, nonGo := processMemory()
-		capacity, workers := pipeline.KeyCapacity(lf.limit, rf.workers, rss)
-		if capacity < vocab.MinCapacity {
+		capacity, workers := pipeline.KeyCapacity(lf.limit, rf.workers)
+		if capacity < 4096 {
 			least := lf.limit >> 20
-			for c, _ := pipeline.KeyCapacity(least<<20, 1, rss); c < 4096; c, _ = pipeline.KeyCapacity(least<<20, 1, rss) {
+			for c, _ := pipeline.KeyCapacity(least<<20, 1); c < 4096; c, _ = pipeline.KeyCapacity(least<<20, 1) {
 				least++
 			}
-			return usagef("--memory-limit %s leaves no room for counting keys: bowline holds %.1f MiB before counting, and a worker needs about 7 MiB; give at least %dMiB", lf.memoryLimit, float64(max(rss, pipeline.NonHeapBytes))/(1<<20), least)
+			return usagef("--memory-limit %s leaves too little room for counting keys: bowline holds %.0f MiB before counting, and a worker needs about 7 MiB; give at least %dMiB", lf.memoryLimit, float64(max(rss, pipeline.NonHeapBytes))/(1<<20), least)
 		}
 		learner.LimitKeys(capacity)
 		rf.workers = workers

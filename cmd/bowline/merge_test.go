@@ -302,8 +302,13 @@ func TestMemoryLimitRSS(t *testing.T) {
 		b.WriteByte('\n')
 	}
 	os.WriteFile(corpusPath, b.Bytes(), 0o644)
-	for _, limit := range []int64{32 << 20, 48 << 20} {
-		cmd := subcommand(t, "learn", corpusPath, "-o", filepath.Join(dir, "s.json"), "--memory-limit", formatSize(limit), "--min-docs", "2", "--progress", "never")
+	fingerprints := map[string]bool{}
+	for _, run := range []struct {
+		limit   int64
+		workers string
+	}{{32 << 20, "1"}, {32 << 20, "2"}, {48 << 20, "2"}} {
+		limit := run.limit
+		cmd := subcommand(t, "learn", corpusPath, "-o", filepath.Join(dir, "s.json"), "--memory-limit", formatSize(limit), "--min-docs", "2", "--progress", "never", "--workers", run.workers)
 		var stderr bytes.Buffer
 		cmd.Stderr = &stderr
 		if err := cmd.Run(); err != nil {
@@ -336,5 +341,13 @@ func TestMemoryLimitRSS(t *testing.T) {
 		if n := len(s.Content.Vocabulary.Keys); n != 2000 || p.MaxDocs > 100 {
 			t.Errorf("kept %d keys, bound %d; want the 2000 common keys", n, p.MaxDocs)
 		}
+		if limit == 32<<20 {
+			fingerprints[s.Fingerprint] = true
+		}
+	}
+	// The capacity depends on the limit alone and batches meet in input
+	// order: the spec is the same for any worker count.
+	if len(fingerprints) != 1 {
+		t.Errorf("--memory-limit 32MiB with 1 and 2 workers wrote %d different specs", len(fingerprints))
 	}
 }
