@@ -6,6 +6,7 @@ import (
 	"runtime"
 	"slices"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -266,5 +267,44 @@ func TestOrderKeys(t *testing.T) {
 	codes, keys := c.OrderKeys()
 	if fmt.Sprint(codes, keys) != "[1 2 3] [1 2 1]" {
 		t.Errorf("OrderKeys = %v %v", codes, keys)
+	}
+}
+
+// Counting under a memory bound: with room for two keys, the rare key
+// "fee" is pruned, and the figures say how far the counts can be off.
+// bike entered twice: its settled count, 2, counts the documents since it
+// last entered (it is in 3); no count is off by more than the bound, 3.
+func ExampleNewBoundedCounts() {
+	c := NewBoundedCounts(MinCapacity)
+	c.b.capacity = 2 // room for two keys, to keep the example small
+	for _, d := range []string{"dock bike", "dock fee", "dock bike", "bike"} {
+		for _, k := range strings.Fields(d) {
+			c.Add([]byte(k), 1)
+		}
+		c.EndDoc()
+	}
+	c.Settle()
+	c.Each(func(key string, _ int, _, docs int64) { fmt.Println(key, docs) })
+	p := c.Pruning()
+	fmt.Printf("pruned %d, bound %d, inexact %d\n", p.Evicted, p.MaxDocs, p.InexactKeys)
+	// Output:
+	// bike 2
+	// dock 3
+	// pruned 2, bound 3, inexact 1
+}
+
+func BenchmarkBoundedCounts(b *testing.B) {
+	docs := zipfDocs(2000, 50000, 3)
+	var size int64
+	for _, d := range docs {
+		for _, k := range d {
+			size += int64(len(k)) + 1
+		}
+	}
+	b.SetBytes(size)
+	b.ReportAllocs()
+	for b.Loop() {
+		c := NewBoundedCounts(1000)
+		countDocs(c, docs)
 	}
 }

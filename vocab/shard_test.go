@@ -190,3 +190,32 @@ func TestWriteShardRefusesBounded(t *testing.T) {
 		t.Error("a Counts with an open document was written as a shard")
 	}
 }
+
+// Two parts of a corpus counted apart, written as count shards and merged
+// back: the counts of the whole.
+func ExampleReadShard() {
+	var files [2]bytes.Buffer
+	for i, part := range [][]string{{"dock full", "app froze"}, {"dock full again"}} {
+		c := NewCounts()
+		for _, d := range part {
+			for _, k := range strings.Fields(d) {
+				c.Add([]byte(k), 1)
+			}
+			c.EndDoc()
+		}
+		WriteShard(&files[i], ShardHeader{Tool: "example", Settings: []byte(`{}`)}, c)
+	}
+	whole := NewCounts()
+	for i := range files {
+		ReadShard(&files[i], fmt.Sprintf("part%d.counts", i), whole)
+	}
+	fmt.Println("documents", whole.Docs())
+	whole.Each(func(key string, _ int, count, docs int64) { fmt.Println(key, count, docs) })
+	// Output:
+	// documents 3
+	// again 1 1
+	// app 1 1
+	// dock 2 2
+	// froze 1 1
+	// full 2 2
+}
