@@ -11,6 +11,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -507,6 +508,22 @@ func BenchmarkReader(b *testing.B) {
 		}
 		if rd.Err() != nil {
 			b.Fatal(rd.Err())
+		}
+	}
+}
+
+// TestAppendValueMatchesStrconv: the integer fast path writes exactly what
+// strconv's shortest 'g' form writes.
+func TestAppendValueMatchesStrconv(t *testing.T) {
+	vals := []float64{0, math.Copysign(0, -1), 1, -1, 2, 999999, -999999, 1e6, -1e6, 123456, 0.5, 1e21, 1e-7, 3, 17, 65536}
+	for i := -2000; i <= 2000; i++ {
+		vals = append(vals, float64(i), float64(i)/4)
+	}
+	for _, v := range vals {
+		got := string(appendValue(nil, v))
+		want := strconv.FormatFloat(v, 'g', -1, 64)
+		if got != want {
+			t.Fatalf("appendValue(%v) = %q, want %q", v, got, want)
 		}
 	}
 }

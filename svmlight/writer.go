@@ -108,12 +108,25 @@ func (w *Writer) Rows() int64 {
 // for each pair with index+base as the number. It does not check its input;
 // WriteRow does.
 func AppendRow(dst []byte, label float64, indices []int, values []float64, base int) []byte {
-	dst = strconv.AppendFloat(dst, label, 'g', -1, 64)
+	dst = appendValue(dst, label)
 	for i, ix := range indices {
 		dst = append(dst, ' ')
 		dst = strconv.AppendInt(dst, int64(ix+base), 10)
 		dst = append(dst, ':')
-		dst = strconv.AppendFloat(dst, values[i], 'g', -1, 64)
+		dst = appendValue(dst, values[i])
 	}
 	return dst
+}
+
+// appendValue appends v in shortest round-trip form, exactly as
+// strconv.AppendFloat(dst, v, 'g', -1, 64) does. Whole numbers below 10^6
+// in magnitude, which that form writes as plain integers, take a faster
+// integer path: counts are the common case.
+func appendValue(dst []byte, v float64) []byte {
+	if v > -1e6 && v < 1e6 {
+		if i := int64(v); float64(i) == v && (i != 0 || !math.Signbit(v)) {
+			return strconv.AppendInt(dst, i, 10)
+		}
+	}
+	return strconv.AppendFloat(dst, v, 'g', -1, 64)
 }
