@@ -14,7 +14,7 @@ import (
 // batchRecords and batchBytes bound one batch of records handed to a worker.
 const (
 	batchRecords = 1024
-	batchBytes   = 1 << 20
+	batchBytes   = 256 << 10
 )
 
 // RecordError is a problem with one record found after it was read (a label

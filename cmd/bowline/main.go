@@ -23,6 +23,7 @@ import (
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
+	"github.com/bowline/bowline/vocab"
 )
 
 // Exit codes.
@@ -155,6 +156,7 @@ func exitCode(err error, stderr io.Writer) int {
 	var re *pipeline.RecordError
 	var le *spec.LoadError
 	var se *stopwords.ParseError
+	var she *vocab.ShardError
 	var pathErr *os.PathError
 	switch {
 	case errors.As(err, &u):
@@ -164,7 +166,7 @@ func exitCode(err error, stderr io.Writer) int {
 			return exitIO
 		}
 		return exitSpec
-	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se):
+	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se), errors.As(err, &she):
 		return exitData
 	case errors.As(err, &pathErr), errors.As(err, new(*ioError)),
 		errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, gzip.ErrChecksum), errors.Is(err, gzip.ErrHeader):
