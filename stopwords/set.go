@@ -2,6 +2,8 @@ package stopwords
 
 import (
 	"cmp"
+	"encoding/binary"
+	"math/bits"
 	"slices"
 )
 
@@ -10,6 +12,78 @@ import (
 type Set struct {
 	words []string         // sorted by bytes
 	index map[string]int32 // word -> position in words
+	// short is an open-addressing table of the words of at most 16
+	// bytes, looked up without hashing a string: most tokens are short,
+	// and every token of a run is looked up.
+	short  []shortSlot
+	shift  uint
+	maxLen int
+}
+
+// shortSlot holds one short word packed into two little-endian words.
+type shortSlot struct {
+	lo, hi uint64
+	n      int32 // length in bytes; 0 = empty slot
+	pos    int32 // position in words
+}
+
+// pack loads up to 16 bytes into two little-endian words.
+func pack(b []byte) (lo, hi uint64) {
+	var a [16]byte
+	copy(a[:], b)
+	return binary.LittleEndian.Uint64(a[:8]), binary.LittleEndian.Uint64(a[8:])
+}
+
+func (s *Set) slot(lo, hi uint64, n int) uint64 {
+	return ((lo ^ hi*0x9e3779b97f4a7c15 ^ uint64(n)) * 0xff51afd7ed558ccd) >> s.shift
+}
+
+// lookup returns the position of tok in words.
+func (s *Set) lookup(tok []byte) (int32, bool) {
+	n := len(tok)
+	if n > s.maxLen {
+		return 0, false
+	}
+	if n > 16 || s.short == nil {
+		i, ok := s.index[string(tok)]
+		return i, ok
+	}
+	lo, hi := pack(tok)
+	mask := uint64(len(s.short) - 1)
+	for i := s.slot(lo, hi, n); ; i = (i + 1) & mask {
+		e := &s.short[i]
+		if e.n == 0 {
+			return 0, false
+		}
+		if e.lo == lo && e.hi == hi && int(e.n) == n {
+			return e.pos, true
+		}
+	}
+}
+
+// buildShort fills the short-word table.
+func (s *Set) buildShort() {
+	size := 16
+	for size < 4*len(s.words) {
+		size *= 2
+	}
+	s.short = make([]shortSlot, size)
+	s.shift = uint(64 - bits.TrailingZeros(uint(size)))
+	mask := uint64(size - 1)
+	for pos, w := range s.words {
+		if len(w) > s.maxLen {
+			s.maxLen = len(w)
+		}
+		if len(w) > 16 || len(w) == 0 {
+			continue
+		}
+		lo, hi := pack([]byte(w))
+		i := s.slot(lo, hi, len(w))
+		for s.short[i].n != 0 {
+			i = (i + 1) & mask
+		}
+		s.short[i] = shortSlot{lo: lo, hi: hi, n: int32(len(w)), pos: int32(pos)}
+	}
 }
 
 // NewSet builds a set from words. normalize (may be nil) appends the
@@ -60,6 +134,7 @@ func NewSet(words []string, normalize func(dst, word []byte) []byte, keepNegatio
 	for i, w := range s.words {
 		s.index[w] = int32(i)
 	}
+	s.buildShort()
 	return s
 }
 
@@ -119,7 +194,7 @@ func (s *Set) Contains(tok []byte) bool {
 	if s == nil {
 		return false
 	}
-	_, ok := s.index[string(tok)]
+	_, ok := s.lookup(tok)
 	return ok
 }
 
@@ -167,7 +242,7 @@ func (f *Filter) Drop(tok []byte) bool {
 	if f.set == nil {
 		return false
 	}
-	i, ok := f.set.index[string(tok)]
+	i, ok := f.set.lookup(tok)
 	if ok {
 		f.counts[i]++
 		f.total++

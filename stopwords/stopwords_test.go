@@ -416,3 +416,25 @@ func BenchmarkDrop(b *testing.B) {
 		}
 	}
 }
+
+// TestShortTableAgreesWithMap: the packed short-word table finds exactly
+// the words of the set, for every built-in list and for near misses.
+func TestShortTableAgreesWithMap(t *testing.T) {
+	var all []string
+	for _, l := range Languages() {
+		w, _ := Builtin(l)
+		all = append(all, w...)
+	}
+	all = append(all, "averyveryverylongstopword", "sixteen-bytes-ok")
+	s := NewSet(all, nil, false)
+	probe := append([]string(nil), all...)
+	for _, w := range all {
+		probe = append(probe, w+"x", "x"+w, strings.ToUpper(w), w[:len(w)/2])
+	}
+	for _, w := range probe {
+		_, want := s.index[w]
+		if got := s.Contains([]byte(w)); got != want {
+			t.Fatalf("Contains(%q) = %v, want %v", w, got, want)
+		}
+	}
+}
