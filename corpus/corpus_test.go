@@ -26,6 +26,13 @@ func show(rec *Record) string {
 			fmt.Fprintf(&b, " %s=%q", v.name, v.b)
 		}
 	}
+	for _, f := range rec.Fields {
+		if f == nil {
+			b.WriteString(" f=nil")
+		} else {
+			fmt.Fprintf(&b, " f=%q", f)
+		}
+	}
 	return b.String()
 }
 

@@ -38,7 +38,9 @@ const (
 	// repeats, the last value wins. A text field takes a string, and null
 	// as an empty document; a label or id field takes a string or a number
 	// (kept as its JSON literal), and null as empty. A missing key or a
-	// value of another type is a *ParseError. Strings decode exactly as
+	// value of another type is a *ParseError. An extra field
+	// (Options.Fields) takes a string, a number or a boolean (kept as its
+	// JSON literal); null and a missing key give nil, not an error. Strings decode exactly as
 	// encoding/json decodes them.
 	JSONL
 )

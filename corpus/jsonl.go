@@ -73,6 +73,16 @@ func (r *Reader) nextJSONL() error {
 		}
 		r.decodeValue(line, r.spans[nt+1])
 	}
+	for j, name := range r.opt.Fields {
+		sp := r.spans[nt+2+j]
+		if !sp.found {
+			continue // absent: nil
+		}
+		if err := r.checkFieldValue(line, lead, sp, name); err != nil {
+			return err
+		}
+		r.decodeValue(line, sp)
+	}
 	k := 0
 	start := 0
 	take := func(sp span) []byte {
@@ -100,6 +110,29 @@ func (r *Reader) nextJSONL() error {
 	}
 	if r.opt.ID != "" {
 		r.rec.ID = take(r.spans[nt+1])
+	}
+	for j := range r.opt.Fields {
+		sp := r.spans[nt+2+j]
+		switch {
+		case !sp.found:
+			r.rec.Fields[j] = nil
+		case line[sp.start] == 'n':
+			take(sp)
+			r.rec.Fields[j] = nil // null: missing
+		default:
+			r.rec.Fields[j] = take(sp)
+		}
+	}
+	return nil
+}
+
+// checkFieldValue accepts a string, number, boolean or null for an extra
+// field.
+func (r *Reader) checkFieldValue(line []byte, lead int, sp span, name string) error {
+	switch kind(line[sp.start]) {
+	case "object", "array":
+		return &ParseError{File: r.name, Line: r.line, Column: r.column(r.line, lead+sp.start+1), Field: name,
+			Err: fmt.Errorf("%w: expected a string, number, boolean or null, found %s", ErrWrongType, kind(line[sp.start]))}
 	}
 	return nil
 }
@@ -202,6 +235,11 @@ func (r *Reader) findKeys(line []byte) {
 		}
 		if r.opt.ID != "" && string(key) == r.opt.ID {
 			r.spans[nt+1] = sp
+		}
+		for j, name := range r.opt.Fields {
+			if string(key) == name {
+				r.spans[nt+2+j] = sp
+			}
 		}
 		i = skipSpace(line, i)
 		if line[i] == ',' {

@@ -28,6 +28,11 @@ type Options struct {
 	Label string
 	// ID names the optional id field ("" for none).
 	ID string
+	// Fields names extra fields read beside the text (table fields such
+	// as a category, a number or a timestamp), resolved like Text. Unlike
+	// a text field, a field may be absent from a JSONL record: its value
+	// is then nil.
+	Fields []string
 	// NoHeader says a TSV or CSV file has no header row: its first row is
 	// data and fields must be column numbers. Other formats ignore it.
 	NoHeader bool
@@ -43,6 +48,10 @@ type Record struct {
 	Text  [][]byte // one per Options.Text field, in order (Lines: one)
 	Label []byte   // nil when no label field was asked for
 	ID    []byte   // nil when no id field was asked for
+	// Fields holds one value per Options.Fields field, in order: the
+	// field's bytes, or nil when a JSONL record lacks the key or holds
+	// null. A JSON number or boolean keeps its literal bytes ("34.5").
+	Fields [][]byte
 }
 
 // bufSize is the size of the read buffers. Longer lines are assembled in a
@@ -66,12 +75,14 @@ type Reader struct {
 
 	// TSV and CSV: column index of each wanted field (-1 for none).
 	textCols []int
+	fieldCol []int
 	labelCol int
 	idCol    int
 	width    int // expected fields per row; 0 until known
 	cr       *csv.Reader
 
-	// JSONL: spans of wanted values, text fields first, then label, id.
+	// JSONL: spans of wanted values, text fields first, then label, id,
+	// then the extra fields.
 	spans []span
 
 	rec     Record
@@ -201,12 +212,15 @@ func NewReader(r io.Reader, name string, o Options) (*Reader, error) {
 		rd.br.Discard(3)
 		rd.bom = true
 	}
+	if len(o.Fields) > 0 {
+		rd.rec.Fields = make([][]byte, len(o.Fields))
+	}
 	switch o.Format {
 	case Lines:
 		rd.rec.Text = make([][]byte, 1)
 	case JSONL:
 		rd.rec.Text = make([][]byte, len(o.Text))
-		rd.spans = make([]span, len(o.Text)+2)
+		rd.spans = make([]span, len(o.Text)+2+len(o.Fields))
 	case TSV, CSV:
 		rd.rec.Text = make([][]byte, len(o.Text))
 		if err := rd.openTable(); err != nil {
@@ -221,8 +235,8 @@ func checkOptions(o Options) error {
 		return fmt.Errorf("unknown format %v", o.Format)
 	}
 	if o.Format == Lines {
-		if len(o.Text) > 0 || o.Label != "" || o.ID != "" {
-			return errors.New("the lines format takes the whole line as the text; it has no text, label or id fields to choose")
+		if len(o.Text) > 0 || o.Label != "" || o.ID != "" || len(o.Fields) > 0 {
+			return errors.New("the lines format takes the whole line as the text; it has no text, label, id or other fields to choose")
 		}
 		return nil
 	}
@@ -232,6 +246,11 @@ func checkOptions(o Options) error {
 	for _, t := range o.Text {
 		if t == "" {
 			return errors.New("empty text field name")
+		}
+	}
+	for _, f := range o.Fields {
+		if f == "" {
+			return errors.New("empty field name")
 		}
 	}
 	return nil
@@ -277,6 +296,14 @@ func (r *Reader) openTable() error {
 			r.textCols = make([]int, len(r.opt.Text))
 		}
 		if r.textCols[i], err = r.resolve(t); err != nil {
+			return err
+		}
+	}
+	for i, f := range r.opt.Fields {
+		if r.fieldCol == nil {
+			r.fieldCol = make([]int, len(r.opt.Fields))
+		}
+		if r.fieldCol[i], err = r.resolve(f); err != nil {
 			return err
 		}
 	}
@@ -575,5 +602,8 @@ func (r *Reader) fill(row [][]byte) {
 	}
 	if r.idCol >= 0 {
 		r.rec.ID = row[r.idCol]
+	}
+	for i, c := range r.fieldCol {
+		r.rec.Fields[i] = row[c]
 	}
 }
