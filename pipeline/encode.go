@@ -339,7 +339,7 @@ func oovFigures(ws *spec.WorkerStats, top int) *report.OOV {
 	o := &report.OOV{}
 	for _, code := range ws.Codes() {
 		f, u := ws.Features[code], ws.Unseen[code]
-		k, uk := int64(len(ws.Keys[code])), int64(len(ws.UnseenKeys[code]))
+		k, uk := spec.KeyCount(ws.Keys, code), spec.KeyCount(ws.UnseenKeys, code)
 		o.Features += f
 		o.Unseen += u
 		o.Keys += k

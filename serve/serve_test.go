@@ -292,7 +292,7 @@ func TestReload(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tampered := strings.Replace(string(raw), `"min_docs": 2`, `"min_docs": 3`, 1)
+	tampered := strings.Replace(string(raw), `"min_docs":2`, `"min_docs":3`, 1)
 	if tampered == string(raw) {
 		t.Fatal("could not tamper with the spec")
 	}

@@ -190,8 +190,8 @@ type WorkerStats struct {
 	Unseen   [MaxOrderCode + 1]int64
 	// Keys and UnseenKeys: distinct keys (by 64-bit hash) per order code
 	// (nil unless the worker tracks keys).
-	Keys       *[MaxOrderCode + 1]map[uint64]struct{}
-	UnseenKeys *[MaxOrderCode + 1]map[uint64]struct{}
+	Keys       *[MaxOrderCode + 1]*hashing.Tally
+	UnseenKeys *[MaxOrderCode + 1]*hashing.Tally
 	// TopUnseen counts unseen keys (capped at MaxTrackedUnseen keys).
 	TopUnseen map[string]int64
 	// Tally is the hashing-mode collision account.
@@ -207,8 +207,8 @@ const MaxTrackedUnseen = 200000
 func (e *Encoder) NewWorker(track bool) *Worker {
 	w := &Worker{e: e, z: e.analysis.NewAnalyzer(), acc: weight.NewAccumulator(), track: track}
 	if track {
-		w.Stats.Keys = new([MaxOrderCode + 1]map[uint64]struct{})
-		w.Stats.UnseenKeys = new([MaxOrderCode + 1]map[uint64]struct{})
+		w.Stats.Keys = new([MaxOrderCode + 1]*hashing.Tally)
+		w.Stats.UnseenKeys = new([MaxOrderCode + 1]*hashing.Tally)
 		w.Stats.TopUnseen = map[string]int64{}
 	}
 	if e.hasher != nil {
@@ -297,15 +297,21 @@ func (w *Worker) add(key []byte, code int) {
 	}
 }
 
-func addKey(m *[MaxOrderCode + 1]map[uint64]struct{}, code int, sum uint64) {
-	s := m[code]
-	if s == nil {
-		s = map[uint64]struct{}{}
-		m[code] = s
+func addKey(m *[MaxOrderCode + 1]*hashing.Tally, code int, sum uint64) {
+	t := m[code]
+	if t == nil {
+		t = hashing.NewTally()
+		m[code] = t
 	}
-	if _, ok := s[sum]; !ok {
-		s[sum] = struct{}{}
+	t.Add(sum)
+}
+
+// KeyCount is the number of distinct keys of order code in m.
+func KeyCount(m *[MaxOrderCode + 1]*hashing.Tally, code int) int64 {
+	if m == nil || m[code] == nil {
+		return 0
 	}
+	return int64(m[code].Len())
 }
 
 // Merge adds o's figures to w's.
@@ -316,11 +322,15 @@ func (s *WorkerStats) Merge(o *WorkerStats) {
 	for k, v := range o.Unseen {
 		s.Unseen[k] += v
 	}
-	mergeSets := func(dst, src *[MaxOrderCode + 1]map[uint64]struct{}) {
-		for code, set := range src {
-			for h := range set {
-				addKey(dst, code, h)
+	mergeSets := func(dst, src *[MaxOrderCode + 1]*hashing.Tally) {
+		for code, t := range src {
+			if t == nil {
+				continue
 			}
+			if dst[code] == nil {
+				dst[code] = hashing.NewTally()
+			}
+			dst[code].Merge(t)
 		}
 	}
 	if s.Keys != nil && o.Keys != nil {

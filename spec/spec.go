@@ -284,14 +284,21 @@ func (s *Spec) Write(w io.Writer) error {
 	if err != nil {
 		return err
 	}
-	var buf bytes.Buffer
-	enc := json.NewEncoder(&buf)
-	enc.SetEscapeHTML(false)
-	enc.SetIndent("", " ")
-	err = enc.Encode(fileLayout{Schema: SchemaVersion, Tool: s.Tool, Fingerprint: s.Fingerprint, Parent: s.Parent, Content: content})
-	if err != nil {
-		return err
+	// The envelope is indented for people; the content is written in its
+	// canonical (compact) form, the very bytes the fingerprint covers.
+	// Indenting a large vocabulary costs more than counting it.
+	str := func(v string) string {
+		b, _ := json.Marshal(v)
+		return string(b)
 	}
+	var buf bytes.Buffer
+	fmt.Fprintf(&buf, "{\n \"schema\": %d,\n \"tool\": %s,\n \"fingerprint\": %s,\n", SchemaVersion, str(s.Tool), str(s.Fingerprint))
+	if s.Parent != "" {
+		fmt.Fprintf(&buf, " \"parent\": %s,\n", str(s.Parent))
+	}
+	buf.WriteString(" \"content\": ")
+	buf.Write(content)
+	buf.WriteString("\n}\n")
 	_, err = w.Write(buf.Bytes())
 	return err
 }

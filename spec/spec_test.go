@@ -155,7 +155,7 @@ func TestLoadRefuses(t *testing.T) {
 
 	// A changed document count: the content no longer hashes to the
 	// recorded fingerprint.
-	i := bytes.Index(good, []byte(`"doc_counts": [`))
+	i := bytes.Index(good, []byte(`"doc_counts":[`))
 	j := i + bytes.IndexAny(good[i:], "0123456789")
 	tampered := append([]byte(nil), good...)
 	tampered[j]++
