@@ -395,11 +395,17 @@ func Read(r io.Reader, name string) (*Spec, error) {
 	if err := cdec.Decode(&s.Content); err != nil {
 		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
 	}
-	canon, err := s.Content.Canonical()
-	if err != nil {
-		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
+	// Bowline writes the content in canonical form, so the raw bytes
+	// usually hash to the fingerprint as they are; otherwise (a file
+	// re-indented by hand, say) the content is encoded canonically again.
+	sum := sha256.Sum256(fl.Content)
+	if "sha256:"+hex.EncodeToString(sum[:]) != fl.Fingerprint {
+		canon, err := s.Content.Canonical()
+		if err != nil {
+			return nil, &LoadError{File: name, Reason: "invalid", Err: err}
+		}
+		sum = sha256.Sum256(canon)
 	}
-	sum := sha256.Sum256(canon)
 	if want := "sha256:" + hex.EncodeToString(sum[:]); want != fl.Fingerprint {
 		return nil, &LoadError{File: name, Reason: "fingerprint mismatch", Err: fmt.Errorf("file says %s but its contents hash to %s: the spec was edited or damaged after bowline wrote it", short(fl.Fingerprint), short(want))}
 	}

@@ -3,6 +3,7 @@ package spec
 import (
 	"bytes"
 	"compress/gzip"
+	"encoding/json"
 	"errors"
 	"os"
 	"path/filepath"
@@ -257,5 +258,21 @@ func TestLabels(t *testing.T) {
 	}
 	if l := LabelsFrom([]string{"1", "-1", "0.5"}, true); l.Kind != "number" {
 		t.Fatalf("numeric labels: %+v", l)
+	}
+}
+
+// TestReindentedSpecLoads: whitespace does not change a spec's meaning, so a
+// spec whose content was re-indented still loads with its fingerprint.
+func TestReindentedSpecLoads(t *testing.T) {
+	sp := learn(t, settings(ModeVocabulary))
+	p, good := writeSpec(t, sp)
+	var pretty bytes.Buffer
+	if err := json.Indent(&pretty, good, "", "\t"); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(p, pretty.Bytes(), 0o644)
+	got, err := Load(p)
+	if err != nil || got.Fingerprint != sp.Fingerprint {
+		t.Fatalf("re-indented spec: %v", err)
 	}
 }
