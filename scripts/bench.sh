@@ -3,25 +3,37 @@
 # floor (one bare, single-goroutine pass of github.com/blevesearch/segment
 # over the same file) and prints each figure as a ratio, with the targets.
 #
-# Usage: scripts/bench.sh [--big] [CORPUS]
+# Usage: scripts/bench.sh [--big] [--demo] [CORPUS]
 #   CORPUS  a lines file (default: the State of the Union addresses cut into
-#           three-sentence documents, repeated 4 times, about 43 MB; needs
+#           three-sentence documents, repeated 10 times, about 108 MB; needs
 #           scripts/fetch-sotu.sh)
+#   --demo  measure on the invented Pellwick demo corpus instead (200,000
+#           generated tickets, text column only, about 31 MB)
 #   --big   also measure peak RSS of hashing-mode encode on a corpus 10
 #           times larger (about 430 MB of disk in a temporary folder)
 # Each figure is the best of 3 runs. Needs /usr/bin/time (Debian "time").
 set -euo pipefail
 cd "$(dirname "$0")/.."
 big=0
-if [ "${1:-}" = "--big" ]; then big=1; shift; fi
+demo=0
+while [ $# -gt 0 ]; do
+  case "$1" in
+    --big) big=1; shift ;;
+    --demo) demo=1; shift ;;
+    *) break ;;
+  esac
+done
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
 go build -o "$tmp/bowline" ./cmd/bowline
 go build -o "$tmp/segfloor" ./internal/tools/segfloor
 corpus=${1:-}
-if [ -z "$corpus" ]; then
+if [ -z "$corpus" ] && [ $demo = 1 ]; then
+  go run ./demo/demotsv --docs 200000 2>/dev/null | tail -n +2 | cut -f5 >"$tmp/corpus.txt"
+  corpus=$tmp/corpus.txt
+elif [ -z "$corpus" ]; then
   sh scripts/fetch-sotu.sh
-  go run ./internal/tools/benchcorpus -o "$tmp/corpus.txt" -copies 4
+  go run ./internal/tools/benchcorpus -o "$tmp/corpus.txt" -copies 10
   corpus=$tmp/corpus.txt
 fi
 bytes=$(stat -c %s "$corpus")
