@@ -28,6 +28,7 @@ type Encoder struct {
 	idfDef   float64
 	labels   map[string]float64
 	columns  int
+	fields   []*fieldCodec // table fields, in spec order
 	pool     sync.Pool
 }
 
@@ -101,6 +102,9 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 		}
 	default:
 		return nil, fmt.Errorf("unknown mode %q", c.Mode)
+	}
+	if err := e.prepareFields(); err != nil {
+		return nil, err
 	}
 	if c.Labels.Kind == "string" {
 		e.labels = make(map[string]float64, len(c.Labels.Map))
@@ -181,6 +185,7 @@ type Worker struct {
 	Stats WorkerStats
 	doc   DocStats
 	track bool
+	fs    fieldState
 }
 
 // WorkerStats accumulates a worker's figures.

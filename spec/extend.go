@@ -52,6 +52,9 @@ func NewExtendLearner(parent *Spec, cut vocab.Cutoffs, in Input) (*Learner, erro
 	if pc.Mode != ModeVocabulary || pc.Vocabulary == nil {
 		return nil, errors.New("a hashing spec has no vocabulary columns to keep stable; learn again with the same --hash settings to refresh its idf")
 	}
+	if len(pc.Fields) > 0 {
+		return nil, errors.New("the spec has table fields whose columns follow its vocabulary, where appended keys would go, so it cannot be extended")
+	}
 	if u := pc.Vocabulary.Unseen; u != "drop" {
 		return nil, fmt.Errorf("the spec puts unseen keys in columns right after its vocabulary (--unseen %s); appended keys would take those columns, so it cannot be extended", u)
 	}
@@ -258,6 +261,9 @@ func (l *Learner) Shard(w *LearnWorker, labels Labels) (*Shard, error) {
 	}
 	if l.parent != nil {
 		return nil, errors.New("count shards cannot extend a spec; extend when merging is done")
+	}
+	if len(l.content.Fields) > 0 {
+		return nil, errors.New("count shards hold text counts only; the statistics of table fields (--category, --number, --time) are learned in one pass")
 	}
 	if p := w.counts.Pruning(); p.Evicted > 0 {
 		return nil, errors.New("count shards hold exact counts; these were pruned under a memory limit")

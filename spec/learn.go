@@ -2,6 +2,7 @@ package spec
 
 import (
 	"fmt"
+	"math"
 	"sort"
 
 	"github.com/bowline/bowline/hashing"
@@ -32,6 +33,9 @@ type Settings struct {
 	TF      weight.TF
 	IDF     weight.IDF
 	Norm    weight.Norm
+	// Fields are the table fields read beside the text, with their
+	// settings only (see ParseCategory, ParseNumber, ParseTime).
+	Fields []TableField
 }
 
 // Content returns the spec content the settings describe, without learned
@@ -44,6 +48,7 @@ func (s *Settings) Content() (Content, error) {
 		NGrams:  NGrams{Words: s.NGrams.Words.String(), Chars: s.NGrams.Chars.String()},
 		Mode:    s.Mode,
 		Weights: Weights{TF: s.TF.String(), IDF: s.IDF.String(), Norm: s.Norm.String()},
+		Fields:  copyFields(s.Fields),
 	}
 	if s.Stem != "" && s.Stem != "none" {
 		st, err := tokenize.NewStemmer(s.Stem)
@@ -78,6 +83,9 @@ func (s *Settings) Content() (Content, error) {
 	default:
 		return c, fmt.Errorf("unknown mode %q", s.Mode)
 	}
+	if err := c.validateFields(); err != nil {
+		return c, err
+	}
 	return c, nil
 }
 
@@ -91,6 +99,7 @@ type Learner struct {
 	capacity int        // most distinct keys counted at once (0: no limit)
 	parent   *Spec      // the spec being extended (see NewExtendLearner)
 	ext      *Extension // filled by Finish when extending
+	fields   *fieldLearner
 }
 
 // NewLearner prepares learning with the given settings.
@@ -103,7 +112,50 @@ func NewLearner(s *Settings) (*Learner, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &Learner{content: c, analysis: a, idf: s.IDF, cutoffs: s.Cutoffs}, nil
+	l := &Learner{content: c, analysis: a, idf: s.IDF, cutoffs: s.Cutoffs}
+	if len(c.Fields) > 0 {
+		if l.fields, err = newFieldLearner(c.Fields, c.Mode, a.tokOpts); err != nil {
+			return nil, err
+		}
+	}
+	return l, nil
+}
+
+// ObserveFields takes the table-field values of one training record (one
+// per Content.Fields field, nil or empty for missing; a nil slice for all
+// missing). Call it once for every record observed, from one goroutine,
+// in input order: the statistics are summed in that order, so the spec
+// does not depend on the worker count. A value that cannot be read is a
+// *FieldError, and nothing of the record is counted then.
+func (l *Learner) ObserveFields(values [][]byte) error {
+	if l.fields == nil {
+		if values == nil {
+			return nil
+		}
+		return fmt.Errorf("%d table field values, but the spec has no table fields", len(values))
+	}
+	return l.fields.observe(values)
+}
+
+// FieldStats returns the training figures of the table fields observed so
+// far, one per field.
+func (l *Learner) FieldStats() []FieldStat {
+	if l.fields == nil {
+		return nil
+	}
+	out := make([]FieldStat, len(l.fields.fields))
+	for i, f := range l.fields.fields {
+		st := &l.fields.stats[i]
+		out[i] = FieldStat{Name: f.Name, Kind: f.Kind, Docs: l.fields.docs, Missing: st.missing, Values: st.n,
+			Mean: st.mean, Min: st.min, Max: st.max, DistinctSeen: int64(len(st.levels))}
+		if st.n > 0 && f.Kind == KindNumber {
+			out[i].SD = math.Sqrt(st.m2 / float64(st.n))
+		}
+		if f.Kind != KindNumber {
+			out[i].Mean, out[i].Min, out[i].Max = 0, 0, 0
+		}
+	}
+	return out
 }
 
 // Content is the content being learned (settings only until Finish).
@@ -239,6 +291,16 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 	c := l.content
 	c.Docs = w.docs
 	c.Labels = labels
+	if l.fields != nil {
+		if l.fields.docs != w.docs {
+			return nil, vocab.CutReport{}, fmt.Errorf("table fields were observed for %d records, the text for %d (call ObserveFields once per record)", l.fields.docs, w.docs)
+		}
+		var minDocs int64
+		if c.Vocabulary != nil {
+			minDocs = c.Vocabulary.MinDocs
+		}
+		c.Fields = l.fields.finish(c.Mode, minDocs)
+	}
 	var rep vocab.CutReport
 	if c.Mode == ModeVocabulary {
 		// Under a key limit the cutoffs apply to the documents each kept

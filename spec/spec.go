@@ -70,6 +70,11 @@ type Content struct {
 	Weights Weights `json:"weights"`
 	// Labels describes how labels become numbers.
 	Labels Labels `json:"labels"`
+	// Fields are the table fields read beside the text (categories,
+	// numbers, timestamps) with their frozen numbers. In vocabulary mode
+	// their columns follow the text columns, field by field in this
+	// order (see FieldColumns).
+	Fields []TableField `json:"fields,omitempty"`
 }
 
 // Input names the corpus fields.
@@ -228,7 +233,7 @@ func (s *Spec) Columns() int64 {
 	if err == nil {
 		n += int64(u)
 	}
-	return n
+	return n + int64(c.fieldColumns())
 }
 
 // Canonical returns the canonical encoding of the content: compact JSON in

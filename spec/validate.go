@@ -74,6 +74,9 @@ func (s *Spec) Validate() error {
 	default:
 		return fmt.Errorf("unknown mode %q (want %s or %s)", c.Mode, ModeVocabulary, ModeHashing)
 	}
+	if err := c.validateFields(); err != nil {
+		return err
+	}
 	if len(c.Labels.Values) != len(c.Labels.Counts) {
 		return fmt.Errorf("labels: %d values but %d counts", len(c.Labels.Values), len(c.Labels.Counts))
 	}
