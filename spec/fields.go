@@ -450,11 +450,11 @@ func Periodic(t time.Time) [6]float64 {
 type fieldLearner struct {
 	hashing bool // levels are not counted in hashing mode
 	fields  []TableField
-	codecs []*fieldCodec
-	tok    *tokenize.Tokenizer
-	buf    []byte
-	docs   int64
-	stats  []learnStat
+	codecs  []*fieldCodec
+	tok     *tokenize.Tokenizer
+	buf     []byte
+	docs    int64
+	stats   []learnStat
 	// per record, before committing
 	raws, xs []float64
 	miss     []bool
