@@ -46,6 +46,10 @@ type Figures struct {
 	Vocabulary *VocabFigures `json:"vocabulary,omitempty"`
 	// Labels counts rows per label value as written (empty when unlabeled).
 	Labels []Count `json:"labels,omitempty"`
+	// Fields are the figures of the table fields read beside the text
+	// (categories, numbers, timestamps), in the spec's order; empty when
+	// the spec has none.
+	Fields []FieldFigures `json:"fields,omitempty"`
 	// Throughput is the run's speed.
 	Throughput Throughput `json:"throughput"`
 }
@@ -142,4 +146,70 @@ type Throughput struct {
 	MBPerSec   float64 `json:"mb_per_sec"`
 	DocsPerSec float64 `json:"docs_per_sec"`
 	Workers    int     `json:"workers"`
+}
+
+// FieldFigures are the figures of one table field over a run. Shares are
+// over Docs. At learn time the seen statistics are the frozen ones.
+type FieldFigures struct {
+	// Name and Kind ("category", "number", "time") are the field's.
+	Name string `json:"name"`
+	Kind string `json:"kind"`
+	// Docs counts records read; Missing those without a value (empty,
+	// absent, null or a --missing-value sentinel).
+	Docs         int64   `json:"docs"`
+	Missing      int64   `json:"missing"`
+	MissingShare float64 `json:"missing_share"`
+	// Category is set for a category field, Number for a number field,
+	// Time for a time field.
+	Category *CategoryFigures `json:"category,omitempty"`
+	Number   *NumberFigures   `json:"number,omitempty"`
+	Time     *TimeFigures     `json:"time,omitempty"`
+}
+
+// CategoryFigures describe a category field.
+type CategoryFigures struct {
+	// Levels is the number of levels the spec keeps (0 in hashing mode,
+	// where no level is stored); LevelsSeen the distinct levels read.
+	Levels     int64 `json:"levels"`
+	LevelsSeen int64 `json:"levels_seen"`
+	// Other counts values that fell into the other level (rarer than
+	// --min-docs at learn time); Unseen values never seen at learn time
+	// (always 0 in hashing mode).
+	Other       int64   `json:"other"`
+	OtherShare  float64 `json:"other_share"`
+	Unseen      int64   `json:"unseen"`
+	UnseenShare float64 `json:"unseen_share"`
+}
+
+// NumberFigures describe a number field. Means and standard deviations
+// are of the present values after log (when the field takes it), before
+// standardization; standard deviations are population ones (divided by
+// n). The frozen ones are the spec's, learned on the training corpus.
+type NumberFigures struct {
+	Values     int64   `json:"values"`
+	Mean       float64 `json:"mean"`
+	SD         float64 `json:"sd"`
+	FrozenMean float64 `json:"frozen_mean"`
+	FrozenSD   float64 `json:"frozen_sd"`
+	// Min and Max are the smallest and largest values read, FrozenMin and
+	// FrozenMax the training range.
+	Min       float64 `json:"min"`
+	Max       float64 `json:"max"`
+	FrozenMin float64 `json:"frozen_min"`
+	FrozenMax float64 `json:"frozen_max"`
+	// OutOfRange counts values outside FrozenMin..FrozenMax.
+	OutOfRange      int64   `json:"out_of_range"`
+	OutOfRangeShare float64 `json:"out_of_range_share"`
+}
+
+// TimeFigures describe a time field.
+type TimeFigures struct {
+	// Values counts times read; First and Last are the earliest and the
+	// latest, in RFC 3339 in the field's zone ("" when none).
+	Values int64  `json:"values"`
+	First  string `json:"first"`
+	Last   string `json:"last"`
+	// Layout and Zone are the field's settings.
+	Layout string `json:"layout"`
+	Zone   string `json:"zone"`
 }

@@ -136,6 +136,23 @@ func (f *Figures) plotsFor(title string) ([]htmlPlot, error) {
 			svg, e := countPlot("Top stop words dropped", "tokens dropped", f.TopStopWords)
 			err = add("Stop words dropped most often.", svg, e)
 		}
+	case "table fields":
+		names := make([]string, len(f.Fields))
+		miss := make([]float64, len(f.Fields))
+		unseen := make([]float64, len(f.Fields))
+		out := make([]float64, len(f.Fields))
+		for i, x := range f.Fields {
+			names[i], miss[i] = x.Name, 100*x.MissingShare
+			if x.Category != nil {
+				unseen[i] = 100 * x.Category.UnseenShare
+			}
+			if x.Number != nil {
+				out[i] = 100 * x.Number.OutOfRangeShare
+			}
+		}
+		svg, e := groupedBars("Table fields", "share of records (%)", names,
+			[]series{{"missing", miss}, {"unseen level", unseen}, {"out of range", out}})
+		err = add("Per table field: missing values, category levels never seen at learn time, numbers outside the training range.", svg, e)
 	case "out-of-vocabulary":
 		if o := f.OOV; len(o.ByOrder) > 0 {
 			names := make([]string, len(o.ByOrder))

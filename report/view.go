@@ -60,6 +60,9 @@ func (f *Figures) sections() []section {
 	if len(f.Labels) > 0 {
 		out = append(out, f.labelSection())
 	}
+	if len(f.Fields) > 0 {
+		out = append(out, f.fieldSection())
+	}
 	if t := f.Throughput; t.Seconds != 0 || t.Bytes != 0 || t.MBPerSec != 0 || t.DocsPerSec != 0 {
 		out = append(out, f.throughputSection())
 	}
@@ -341,4 +344,40 @@ func elapsed(sec float64) string {
 		d = d.Round(time.Microsecond)
 	}
 	return d.String()
+}
+
+// fieldSection tabulates the table fields: one table for all fields
+// (missing share), one for categories and one for numbers.
+func (f *Figures) fieldSection() section {
+	s := section{Title: "table fields"}
+	all := table{Caption: "per field", Head: []string{"field", "kind", "docs", "missing", "missing share"},
+		Num: []bool{false, false, true, true, true}}
+	cats := table{Caption: "categories", Head: []string{"field", "levels", "seen", "other", "other share", "unseen", "unseen share"},
+		Num: []bool{false, true, true, true, true, true, true}}
+	nums := table{Caption: "numbers (after log, before standardization; population sd)",
+		Head: []string{"field", "mean", "frozen mean", "sd", "frozen sd", "min", "max", "frozen range", "out of range"},
+		Num:  []bool{false, true, true, true, true, true, true, false, true}}
+	times := table{Caption: "times", Head: []string{"field", "first", "last", "zone"}, Num: []bool{false, false, false, false}}
+	for _, x := range f.Fields {
+		all.Rows = append(all.Rows, []string{x.Name, x.Kind, itoa(x.Docs), itoa(x.Missing), pct(x.MissingShare)})
+		if c := x.Category; c != nil {
+			cats.Rows = append(cats.Rows, []string{x.Name, itoa(c.Levels), itoa(c.LevelsSeen), itoa(c.Other), pct(c.OtherShare),
+				itoa(c.Unseen), pct(c.UnseenShare)})
+		}
+		if n := x.Number; n != nil {
+			nums.Rows = append(nums.Rows, []string{x.Name, sig(n.Mean), sig(n.FrozenMean), sig(n.SD), sig(n.FrozenSD),
+				sig(n.Min), sig(n.Max), sig(n.FrozenMin) + ".." + sig(n.FrozenMax),
+				join(itoa(n.OutOfRange), pct(n.OutOfRangeShare))})
+		}
+		if t := x.Time; t != nil {
+			times.Rows = append(times.Rows, []string{x.Name, t.First, t.Last, t.Zone})
+		}
+	}
+	s.Tables = append(s.Tables, all)
+	for _, t := range []table{cats, nums, times} {
+		if len(t.Rows) > 0 {
+			s.Tables = append(s.Tables, t)
+		}
+	}
+	return s
 }
