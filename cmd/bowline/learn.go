@@ -35,6 +35,8 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	in.register(c.fs)
 	an.register(c.fs)
 	rf.register(c.fs)
+	var ef errorFlags
+	ef.register(c.fs)
 	c.fs.StringVar(&of.out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
 	c.fs.StringVar(&of.featureMap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
 	of.registerReport(c)
@@ -53,6 +55,9 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		return usagef("bowline learn needs -o SPEC.json, the spec file to write")
 	}
 	if err := rf.check(); err != nil {
+		return err
+	}
+	if err := ef.check(); err != nil {
 		return err
 	}
 	if err := checkReportPath(of.report); err != nil {
@@ -127,8 +132,13 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer r.Close()
+	rej, err := ef.open()
+	if err != nil {
+		return err
+	}
+	defer rej.abort()
 	bar := newProgress(rf.progress, r.Size(), stderr, "learn")
-	lo := pipeline.LearnOptions{Name: path, Workers: rf.workers, Progress: bar.set}
+	lo := pipeline.LearnOptions{Name: path, Workers: rf.workers, Progress: bar.set, Rejects: rej.rejects()}
 	if lf.countsOut != "" {
 		sh, fig, err := pipeline.Count(r, learner, lo)
 		bar.finish()
@@ -138,7 +148,11 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		if err := sh.Save(lf.countsOut); err != nil {
 			return &ioError{err}
 		}
+		if err := rej.commit(stderr); err != nil {
+			return err
+		}
 		fig.WriteText(stderr)
+		rej.summary(stderr)
 		fmt.Fprintf(stderr, "\ncount shard written to %s: %d documents, %d distinct keys, no cutoff applied (bowline merge applies them)\n", lf.countsOut, sh.Counts.Docs(), sh.Counts.Len())
 		return writeReport(of.report, fig)
 	}
@@ -155,7 +169,11 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 			return err
 		}
 	}
+	if err := rej.commit(stderr); err != nil {
+		return err
+	}
 	fig.WriteText(stderr)
+	rej.summary(stderr)
 	if x := learner.Extension(); x != nil {
 		describeExtension(stderr, x, lf.extend)
 	}
