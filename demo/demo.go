@@ -9,6 +9,7 @@ import (
 	"math/rand/v2"
 	"strconv"
 	"strings"
+	"time"
 	"unicode"
 	"unicode/utf8"
 )
@@ -23,7 +24,7 @@ const Notice = "The Pellwick Bike Share corpus is invented: Pellwick Bike Share 
 	"and its stations, streets, tickets and texts are generated; any resemblance to real places, people or companies is coincidental."
 
 // Header is the first line WriteTSV writes: the names of the columns.
-const Header = "id\tchannel\tteam\tsentiment\ttext"
+const Header = "id\tchannel\tteam\tsentiment\ttext\tzone\tplan\tage\tcreated"
 
 // Options say how much of the corpus to generate and from which seed.
 type Options struct {
@@ -50,11 +51,21 @@ func Split(docs int) (train, test int) {
 // pcgStream is the second PCG seed word; Options.Seed is the first.
 const pcgStream = 0x50656c6c7769636b // "Pellwick"
 
+// tableStream is the second PCG seed word of the table columns (zone,
+// plan, age, created): they come from a stream of their own, so the first
+// five columns are the same bytes as before the table columns existed.
+const tableStream = 0x5461626c65436f6c // "TableCol"
+
 // WriteTSV writes the header and o.Docs records, one per line, with the
 // columns id, channel (review or ticket), team (billing, bikes, docks or
-// app), sentiment (positive, negative or neutral) and text. Texts hold no
-// tab, newline or backslash, so every line splits into five fields. The
-// output depends only on o.
+// app), sentiment (positive, negative or neutral), text, and the table
+// columns of a ticket export: zone (the rider's home zone, now and then in
+// other case or with stray spaces, rarely a one-off zone code, sometimes
+// empty), plan (single, day pass, monthly, annual, student), age (whole
+// years; empty or "unknown" for some riders) and created (an RFC 3339
+// time in UTC, empty for a few records). Texts hold no tab, newline or
+// backslash, so every line splits into nine fields. The output depends
+// only on o.
 func WriteTSV(w io.Writer, o Options) error {
 	if o.Docs < 0 {
 		return errors.New("demo: negative number of documents")
@@ -62,8 +73,10 @@ func WriteTSV(w io.Writer, o Options) error {
 	bw := bufio.NewWriter(w)
 	bw.WriteString(Header + "\n")
 	g := &generator{r: rand.New(rand.NewPCG(o.Seed, pcgStream))}
+	tg := &generator{r: rand.New(rand.NewPCG(o.Seed, tableStream))}
 	for i := range o.Docs {
 		d := g.doc()
+		tc := tg.table(d)
 		bw.WriteString("pw-")
 		bw.WriteString(pad5(i + 1))
 		bw.WriteByte('\t')
@@ -74,6 +87,10 @@ func WriteTSV(w io.Writer, o Options) error {
 		bw.WriteString(d.sentiment)
 		bw.WriteByte('\t')
 		bw.WriteString(d.text)
+		for _, v := range tc {
+			bw.WriteByte('\t')
+			bw.WriteString(v)
+		}
 		if err := bw.WriteByte('\n'); err != nil {
 			return err
 		}
@@ -505,4 +522,72 @@ func pad2(n int) string {
 		return "0" + strconv.Itoa(n)
 	}
 	return strconv.Itoa(n)
+}
+
+// Table columns of the demo (invented zone names).
+var (
+	zones = []string{"Harbour", "Old Town", "Canal Side", "University", "Riverside", "Northgate"}
+	plans = []string{"single", "day pass", "monthly", "annual", "student"}
+	// demoYear is the year the tickets are from (a leap year).
+	demoYear = time.Date(2024, time.January, 1, 0, 0, 0, 0, time.UTC)
+)
+
+// table draws the zone, plan, age and created columns of record d from
+// the table stream (the record's own fields steer the draws but take no
+// draw from the text stream).
+func (g *generator) table(d record) [4]string {
+	var c [4]string
+	// zone
+	switch x := g.r.Float64(); {
+	case x < 0.03:
+		c[0] = ""
+	case x < 0.035:
+		c[0] = "Z" + strconv.Itoa(100+g.r.IntN(900)) // a one-off zone code
+	default:
+		z := zones[g.weighted(0.26, 0.22, 0.17, 0.15, 0.12, 0.08)]
+		switch y := g.r.Float64(); {
+		case y < 0.04:
+			z = strings.ToLower(z)
+		case y < 0.06:
+			z = strings.ToUpper(z)
+		case y < 0.08:
+			z = " " + z + " "
+		}
+		c[0] = z
+	}
+	// plan: billing tickets come more often from members.
+	if d.team == "billing" {
+		c[1] = plans[g.weighted(0.15, 0.10, 0.35, 0.30, 0.10)]
+	} else {
+		c[1] = plans[g.weighted(0.35, 0.25, 0.15, 0.10, 0.15)]
+	}
+	// age: students are young; some riders give none.
+	switch x := g.r.Float64(); {
+	case x < 0.08:
+		c[2] = ""
+	case x < 0.10:
+		c[2] = "unknown"
+	default:
+		age := 18 + g.r.IntN(8)
+		if c[1] != "student" {
+			age = 18 + int(g.r.ExpFloat64()*14)
+			age = min(age, 84)
+		}
+		c[2] = strconv.Itoa(age)
+	}
+	// created: app trouble peaks late in the evening, the rest around
+	// the commute.
+	if g.chance(0.015) {
+		c[3] = ""
+		return c
+	}
+	day := g.r.IntN(366)
+	hour := []int{8, 17}[g.r.IntN(2)] + int(g.r.NormFloat64()*2)
+	if d.team == "app" && g.chance(0.5) {
+		hour = 22 + g.r.IntN(4)
+	}
+	hour = ((hour % 24) + 24) % 24
+	t := demoYear.AddDate(0, 0, day).Add(time.Duration(hour)*time.Hour + time.Duration(g.r.IntN(60))*time.Minute)
+	c[3] = t.Format(time.RFC3339)
+	return c
 }

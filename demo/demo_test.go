@@ -6,8 +6,11 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"math"
+	"slices"
+	"strconv"
 	"strings"
 	"testing"
+	"time"
 	"unicode"
 	"unicode/utf8"
 
@@ -16,11 +19,19 @@ import (
 
 // defaultSHA256 is the SHA-256 of WriteTSV(DefaultOptions()). It changes
 // only when the generator changes on purpose; then update it here and say
-// so in the commit message.
-const defaultSHA256 = "01bf9dfaabfe7fe48891b76b7d72347cbbb474d981241163753f01af2dc8e2cc"
+// so in the commit message. (It changed when the table columns zone,
+// plan, age and created were added.)
+const defaultSHA256 = "ab7b181a9f24a6b87816c21eca8ebe547d4c05e8ef395fde812850043864340c"
+
+// textSHA256 is the SHA-256 of the first five columns (id to text) of
+// WriteTSV(DefaultOptions()), the whole corpus before the table columns
+// were added: those columns must keep their bytes, since golden files are
+// made from them.
+const textSHA256 = "01bf9dfaabfe7fe48891b76b7d72347cbbb474d981241163753f01af2dc8e2cc"
 
 type row struct {
 	id, channel, team, sentiment, text string
+	zone, plan, age, created           string
 }
 
 func generate(t testing.TB, o Options) []byte {
@@ -32,7 +43,7 @@ func generate(t testing.TB, o Options) []byte {
 	return buf.Bytes()
 }
 
-// parse splits the TSV, failing on a line without exactly five fields.
+// parse splits the TSV, failing on a line without exactly nine fields.
 func parse(t testing.TB, b []byte) []row {
 	t.Helper()
 	sc := bufio.NewScanner(bytes.NewReader(b))
@@ -42,16 +53,16 @@ func parse(t testing.TB, b []byte) []row {
 	for sc.Scan() {
 		line++
 		f := strings.Split(sc.Text(), "\t")
-		if len(f) != 5 {
-			t.Fatalf("line %d has %d fields, want 5: %q", line, len(f), sc.Text())
+		if len(f) != 9 {
+			t.Fatalf("line %d has %d fields, want 9: %q", line, len(f), sc.Text())
 		}
 		if line == 1 {
-			if sc.Text() != Header || Header != "id\tchannel\tteam\tsentiment\ttext" {
+			if sc.Text() != Header || Header != "id\tchannel\tteam\tsentiment\ttext\tzone\tplan\tage\tcreated" {
 				t.Fatalf("header = %q", sc.Text())
 			}
 			continue
 		}
-		rows = append(rows, row{f[0], f[1], f[2], f[3], f[4]})
+		rows = append(rows, row{f[0], f[1], f[2], f[3], f[4], f[5], f[6], f[7], f[8]})
 	}
 	if err := sc.Err(); err != nil {
 		t.Fatal(err)
@@ -406,5 +417,75 @@ func TestReadsAsCorpus(t *testing.T) {
 	}
 	if i != len(rows) {
 		t.Errorf("reader returned %d records, want %d", i, len(rows))
+	}
+}
+
+// TestTableColumns checks the table columns: the text columns keep the
+// bytes they had before the table columns existed, and the table columns
+// have the shares the generator aims at.
+func TestTableColumns(t *testing.T) {
+	var five bytes.Buffer
+	for _, line := range strings.SplitAfter(string(generate(t, DefaultOptions())), "\n") {
+		if line == "" {
+			continue
+		}
+		f := strings.SplitN(strings.TrimSuffix(line, "\n"), "\t", 6)
+		five.WriteString(strings.Join(f[:5], "\t") + "\n")
+	}
+	sum := sha256.Sum256(five.Bytes())
+	if got := hex.EncodeToString(sum[:]); got != textSHA256 {
+		t.Errorf("the first five columns changed: SHA-256 %s, want %s", got, textSHA256)
+	}
+	rows := rowsDefault(t)
+	n := float64(len(rows))
+	var zoneMissing, oneOff, ageMissing, unknown, created int
+	folded := map[string]bool{}
+	for _, r := range rows {
+		switch {
+		case r.zone == "":
+			zoneMissing++
+		case strings.HasPrefix(r.zone, "Z"):
+			oneOff++
+		default:
+			folded[strings.ToLower(strings.TrimSpace(r.zone))] = true
+		}
+		switch r.age {
+		case "":
+			ageMissing++
+		case "unknown":
+			unknown++
+		default:
+			if a, err := strconv.Atoi(r.age); err != nil || a < 18 || a > 84 {
+				t.Errorf("%s: age %q", r.id, r.age)
+			}
+		}
+		if r.created != "" {
+			tm, err := time.Parse(time.RFC3339, r.created)
+			if err != nil || tm.Year() != 2024 {
+				t.Errorf("%s: created %q: %v", r.id, r.created, err)
+			}
+			created++
+		}
+		if !slices.Contains(plans, r.plan) {
+			t.Errorf("%s: plan %q", r.id, r.plan)
+		}
+	}
+	for _, c := range []struct {
+		what   string
+		got    float64
+		lo, hi float64
+	}{
+		{"zone missing", float64(zoneMissing) / n, 0.02, 0.04},
+		{"one-off zones", float64(oneOff) / n, 0.002, 0.01},
+		{"age missing", float64(ageMissing) / n, 0.06, 0.10},
+		{"age unknown", float64(unknown) / n, 0.01, 0.03},
+		{"created present", float64(created) / n, 0.97, 0.995},
+	} {
+		if c.got < c.lo || c.got > c.hi {
+			t.Errorf("%s share %.4f, want within [%.3f, %.3f]", c.what, c.got, c.lo, c.hi)
+		}
+	}
+	if len(folded) != len(zones) {
+		t.Errorf("zones after case folding and trimming: %v", folded)
 	}
 }

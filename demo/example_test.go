@@ -21,9 +21,9 @@ func ExampleWriteTSV() {
 		fmt.Println(strings.ReplaceAll(sc.Text(), "\t", " | "))
 	}
 	// Output:
-	// id | channel | team | sentiment | text
-	// pw-00001 | review | app | neutral | Which phones does the app support? Where do I find the ride history in the app? Thanks in advance.
-	// pw-00002 | review | billing | negative | Been a member since 2020. The receipt was not correct.
+	// id | channel | team | sentiment | text | zone | plan | age | created
+	// pw-00001 | review | app | neutral | Which phones does the app support? Where do I find the ride history in the app? Thanks in advance. | Riverside | annual | 30 | 2024-02-13T00:40:00Z
+	// pw-00002 | review | billing | negative | Been a member since 2020. The receipt was not correct. | Harbour | single | 20 | 2024-08-03T16:48:00Z
 }
 
 func ExampleSplit() {

@@ -2,6 +2,7 @@ package pipeline
 
 import (
 	"errors"
+	"fmt"
 	"io"
 	"math"
 	"sort"
@@ -59,7 +60,10 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	var stopOnce sync.Once
 	halt := func() { stopOnce.Do(func() { close(stop) }) }
 
-	nfield := len(enc.Spec().Content.Input.Text)
+	ntext := len(enc.Spec().Content.Input.Text)
+	ntable := len(enc.Spec().Content.Fields)
+	nfield := ntext + ntable
+	obs := enc.NewFieldObserver()
 	var readErr error
 	var readBytes int64
 	readerDone := make(chan struct{})
@@ -72,7 +76,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 			if _, err := enc.Label(rec.Label, o.LabelFallback); err != nil {
 				return &RecordError{File: o.Name, Line: rec.Line, Err: err}
 			}
-			return nil
+			return observeFields(o.Name, rec, ntable, obs.Observe)
 		}, o.Rejects)
 		readBytes = r.BytesRead()
 	}()
@@ -86,7 +90,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 			defer wg.Done()
 			var row weight.Row
 			for b := range work {
-				encodeBatch(w, enc, b, &row, o)
+				encodeBatch(w, enc, b, &row, o, ntext)
 				select {
 				case done <- b:
 				case <-stop:
@@ -178,6 +182,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	cols := int64(enc.Columns())
 	fig.Sparsity = sparsity(rows, cols, &st)
 	fig.Labels = labelCounts(st.labelRows)
+	fig.Fields = FieldFigures(&s.Content, obs.Stats())
 	if s.Content.Mode == spec.ModeVocabulary {
 		fig.OOV = oovFigures(&ws, o.TopUnseen)
 	} else if ws.Tally != nil {
@@ -190,11 +195,15 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	return fig, nil
 }
 
-func encodeBatch(w *spec.Worker, enc *spec.Encoder, b *batch, row *weight.Row, o EncodeOptions) {
+func encodeBatch(w *spec.Worker, enc *spec.Encoder, b *batch, row *weight.Row, o EncodeOptions, ntext int) {
 	b.out = b.out[:0]
 	b.st.labelRows = map[float64]int64{}
-	for i, texts := range b.texts {
-		ds := w.Encode(texts, row)
+	for i, fields := range b.texts {
+		ds, err := w.EncodeFields(fields[:ntext], fields[ntext:], row)
+		if err != nil {
+			b.err = &RecordError{File: o.Name, Line: b.lines[i], Err: err}
+			return
+		}
 		label, err := enc.Label(b.labels[i], o.LabelFallback)
 		if err != nil {
 			b.err = &RecordError{File: o.Name, Line: b.lines[i], Err: err}
@@ -397,4 +406,55 @@ func (e *errWriter) Write(p []byte) (int, error) {
 		e.err = errors.New("short write")
 	}
 	return n, e.err
+}
+
+// observeFields checks that the reader gives the spec's table fields and
+// passes them to observe; a value that cannot be read is a *RecordError
+// (skippable under --on-error skip).
+func observeFields(name string, rec *corpus.Record, n int, observe func([][]byte) error) error {
+	if len(rec.Fields) != n {
+		return fmt.Errorf("%s:%d: the corpus reader gives %d table fields, the spec has %d (set corpus.Options.Fields to the spec's fields)", name, rec.Line, len(rec.Fields), n)
+	}
+	if n == 0 {
+		return nil
+	}
+	if err := observe(rec.Fields); err != nil {
+		var fe *spec.FieldError
+		if errors.As(err, &fe) {
+			return &RecordError{File: name, Line: rec.Line, Err: err}
+		}
+		return fmt.Errorf("%s:%d: %w", name, rec.Line, err)
+	}
+	return nil
+}
+
+// FieldFigures turns the table-field figures of a run into report form,
+// next to the numbers frozen in c. stats holds one entry per field of c.
+func FieldFigures(c *spec.Content, stats []spec.FieldStat) []report.FieldFigures {
+	if len(c.Fields) == 0 || len(stats) != len(c.Fields) {
+		return nil
+	}
+	out := make([]report.FieldFigures, len(stats))
+	for i, st := range stats {
+		f := &c.Fields[i]
+		ff := report.FieldFigures{Name: f.Name, Kind: f.Kind, Docs: st.Docs, Missing: st.Missing, MissingShare: share(st.Missing, st.Docs)}
+		switch f.Kind {
+		case spec.KindCategory:
+			ff.Category = &report.CategoryFigures{Levels: int64(len(f.Category.Levels)), LevelsSeen: st.DistinctSeen,
+				Other: st.Other, OtherShare: share(st.Other, st.Docs), Unseen: st.Unseen, UnseenShare: share(st.Unseen, st.Docs)}
+		case spec.KindNumber:
+			n := f.Number
+			ff.Number = &report.NumberFigures{Values: st.Values, Mean: st.Mean, SD: st.SD, FrozenMean: n.Mean, FrozenSD: n.SD,
+				Min: st.Min, Max: st.Max, FrozenMin: n.Min, FrozenMax: n.Max,
+				OutOfRange: st.OutOfRange, OutOfRangeShare: share(st.OutOfRange, st.Docs)}
+		case spec.KindTime:
+			tf := &report.TimeFigures{Values: st.Values, Layout: f.Time.Layout, Zone: f.Time.Zone}
+			if st.Values > 0 {
+				tf.First, tf.Last = st.First.Format(time.RFC3339), st.Last.Format(time.RFC3339)
+			}
+			ff.Time = tf
+		}
+		out[i] = ff
+	}
+	return out
 }

@@ -75,6 +75,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	work := make(chan *batch, nw)
 	stop := make(chan struct{})
 	c := l.Content()
+	ntext, ntable := len(c.Input.Text), len(c.Fields)
 	hasLabel := c.Input.Label != ""
 	labelCount := map[string]int64{}
 	var labelErr error
@@ -83,15 +84,18 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	readerDone := make(chan struct{})
 	go func() {
 		defer close(readerDone)
-		readErr = readBatches(r, len(c.Input.Text), free, work, stop, func(rec *corpus.Record) error {
+		readErr = readBatches(r, ntext+ntable, free, work, stop, func(rec *corpus.Record) error {
 			if o.Progress != nil {
 				o.Progress(r.BytesRead())
 			}
+			if hasLabel && len(rec.Label) == 0 {
+				return &RecordError{File: o.Name, Line: rec.Line, Err: fmt.Errorf("label field %q is empty", c.Input.Label)}
+			}
+			if err := observeFields(o.Name, rec, ntable, l.ObserveFields); err != nil {
+				return err
+			}
 			if !hasLabel {
 				return nil
-			}
-			if len(rec.Label) == 0 {
-				return &RecordError{File: o.Name, Line: rec.Line, Err: fmt.Errorf("label field %q is empty", c.Input.Label)}
 			}
 			if n, ok := labelCount[string(rec.Label)]; ok || len(labelCount) < maxLabels {
 				labelCount[string(rec.Label)] = n + 1
@@ -138,7 +142,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 			for b := range work {
 				var e, n int64
 				for _, texts := range b.texts {
-					k := w.Observe(texts)
+					k := w.Observe(texts[:ntext])
 					if k == 0 {
 						e++
 					}
@@ -238,6 +242,9 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	}
 	for _, k := range labels {
 		fig.Labels = append(fig.Labels, report.Count{Name: k, Count: labelCount[k]})
+	}
+	if s != nil {
+		fig.Fields = FieldFigures(&s.Content, l.FieldStats())
 	}
 	fig.Throughput = throughput(maxInt64(r.BytesRead(), inBytes), docs, elapsed, nw)
 	return s, sh, fig, nil

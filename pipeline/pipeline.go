@@ -87,6 +87,9 @@ func (b *batch) add(r *corpus.Record) {
 	for _, t := range r.Text {
 		put(t)
 	}
+	for _, f := range r.Fields { // table fields travel after the text fields
+		put(f)
+	}
 	put(r.Label)
 	put(r.ID)
 }

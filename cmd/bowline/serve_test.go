@@ -108,7 +108,7 @@ func TestServeCommand(t *testing.T) {
 	texts := map[string]string{}
 	for _, line := range strings.Split(strings.TrimSpace(serveReadFile(t, p("test.tsv"))), "\n")[1:] {
 		fs := strings.Split(line, "\t")
-		texts[fs[0]] = fs[len(fs)-1]
+		texts[fs[0]] = fs[4] // id, channel, team, sentiment, text, then the table columns
 	}
 	type doc struct {
 		ID   string `json:"id"`
