@@ -125,7 +125,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if err := res.WriteText(stderr); err != nil {
+	if err := res.WriteText(stdout); err != nil {
 		return &ioError{err}
 	}
 	fmt.Fprintf(stderr, "\nelapsed %s\n", time.Since(start).Round(time.Millisecond))

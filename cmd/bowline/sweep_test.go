@@ -45,7 +45,7 @@ func TestSweepCommand(t *testing.T) {
 	if err := runSweep(append(common, "--report", js), &stdout, &stderr); err != nil {
 		t.Fatalf("sweep: %v\n%s", err, stderr.String())
 	}
-	text := stderr.String()
+	text := stdout.String() // the table goes to stdout, as the issue asks
 	t.Logf("\n%s", text)
 	if !strings.Contains(text, "vocabulary") || !strings.Contains(text, "2^14") || !strings.Contains(text, "most crowded buckets at width 2^10") {
 		t.Errorf("text table lacks the vocabulary row, the 2^14 row or the crowded buckets:\n%s", text)
