@@ -457,6 +457,7 @@ type fieldLearner struct {
 	stats   []learnStat
 	// per record, before committing
 	raws, xs []float64
+	times    []time.Time
 	miss     []bool
 	lv       [][]byte
 }
@@ -469,6 +470,8 @@ type learnStat struct {
 	m2      float64
 	min     float64
 	max     float64
+	first   time.Time
+	last    time.Time
 }
 
 func newFieldLearner(fields []TableField, mode string, tok tokenize.Options) (*fieldLearner, error) {
@@ -490,6 +493,7 @@ func newFieldLearner(fields []TableField, mode string, tok tokenize.Options) (*f
 	}
 	n := len(fields)
 	fl.raws, fl.xs, fl.miss, fl.lv = make([]float64, n), make([]float64, n), make([]bool, n), make([][]byte, n)
+	fl.times = make([]time.Time, n)
 	return fl, nil
 }
 
@@ -511,7 +515,7 @@ func (fl *fieldLearner) observe(values [][]byte) error {
 		case KindNumber:
 			fl.raws[i], fl.xs[i], fl.miss[i], err = fc.number(val(i))
 		case KindTime:
-			_, fl.miss[i], err = fc.when(val(i))
+			fl.times[i], fl.miss[i], err = fc.when(val(i))
 		case KindCategory:
 			fl.lv[i] = level(fl.tok, fl.lv[i], val(i))
 			fl.miss[i] = len(fl.lv[i]) == 0
@@ -553,6 +557,12 @@ func (fl *fieldLearner) observe(values [][]byte) error {
 			}
 		case KindTime:
 			st.n++
+			if t := fl.times[i]; st.n == 1 || t.Before(st.first) {
+				st.first = t
+			}
+			if t := fl.times[i]; st.n == 1 || t.After(st.last) {
+				st.last = t
+			}
 		}
 	}
 	return nil

@@ -154,6 +154,16 @@ func (l *Learner) FieldStats() []FieldStat {
 		if f.Kind != KindNumber {
 			out[i].Mean, out[i].Min, out[i].Max = 0, 0, 0
 		}
+		if f.Kind == KindTime {
+			out[i].First, out[i].Last = st.first, st.last
+		}
+		if f.Kind == KindCategory && l.content.Vocabulary != nil {
+			for _, n := range st.levels {
+				if n < l.content.Vocabulary.MinDocs {
+					out[i].Other += n
+				}
+			}
+		}
 	}
 	return out
 }

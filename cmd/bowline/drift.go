@@ -56,6 +56,7 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 	if n := len(specInput(copts).Text); n != len(s.Content.Input.Text) {
 		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}
+	copts.Fields = fieldNames(s.Content.Fields)
 	r, err := corpus.Open(path, copts)
 	if err != nil {
 		return err

@@ -206,6 +206,25 @@ type analysisFlags struct {
 	seed                                uint64
 	signed                              bool
 	tf, idf, norm                       string
+	table                               []tableArg // --category, --number, --time in command-line order
+	missing                             listFlag
+	timeZone                            string
+}
+
+// tableArg is one --category, --number or --time argument.
+type tableArg struct{ kind, arg string }
+
+// tableFlag appends its arguments, with their kind, to one shared list,
+// so that the table fields keep the order of the command line.
+type tableFlag struct {
+	kind string
+	list *[]tableArg
+}
+
+func (t tableFlag) String() string { return "" }
+func (t tableFlag) Set(s string) error {
+	*t.list = append(*t.list, tableArg{t.kind, s})
+	return nil
 }
 
 func (f *analysisFlags) register(fs *flag.FlagSet) {
@@ -230,6 +249,64 @@ func (f *analysisFlags) register(fs *flag.FlagSet) {
 	fs.StringVar(&f.tf, "tf", "count", "term frequency count|binary|log")
 	fs.StringVar(&f.idf, "idf", "none", "inverse document frequency none|smooth|plain")
 	fs.StringVar(&f.norm, "norm", "none", "row norm none|l1|l2")
+	fs.Var(tableFlag{spec.KindCategory, &f.table}, "category", "categorical field NAME beside the text: one column per level (repeatable)")
+	fs.Var(tableFlag{spec.KindNumber, &f.table}, "number", "numeric field NAME[:log|:standard|:log,standard] beside the text (repeatable)")
+	fs.Var(tableFlag{spec.KindTime, &f.table}, "time", "timestamp field NAME[:LAYOUT] (RFC 3339 by default, or a Go layout): periodic features (repeatable)")
+	fs.Var(&f.missing, "missing-value", "a value that means missing in number fields, such as NA or -1 (repeatable)")
+	fs.StringVar(&f.timeZone, "time-zone", "UTC", "IANA time zone the periods of --time fields are read in")
+}
+
+// tableFields turns the table-field flags into spec settings.
+func (f *analysisFlags) tableFields(set map[string]bool) ([]spec.TableField, error) {
+	if len(f.table) == 0 {
+		for _, n := range []string{"missing-value", "time-zone"} {
+			if set[n] {
+				return nil, usagef("--%s applies to table fields; give --number or --time too", n)
+			}
+		}
+		return nil, nil
+	}
+	var out []spec.TableField
+	seen := map[string]string{}
+	hasNumber, hasTime := false, false
+	for _, a := range f.table {
+		var tf spec.TableField
+		var err error
+		switch a.kind {
+		case spec.KindCategory:
+			tf, err = spec.ParseCategory(a.arg)
+		case spec.KindNumber:
+			tf, err = spec.ParseNumber(a.arg, f.missing)
+			hasNumber = true
+		case spec.KindTime:
+			tf, err = spec.ParseTime(a.arg, f.timeZone)
+			hasTime = true
+		}
+		if err != nil {
+			return nil, usagef("--%s: %v", a.kind, err)
+		}
+		if k, dup := seen[tf.Name]; dup {
+			return nil, usagef("--%s %s: field %q is already a %s field", a.kind, a.arg, tf.Name, k)
+		}
+		seen[tf.Name] = a.kind
+		out = append(out, tf)
+	}
+	if set["missing-value"] && !hasNumber {
+		return nil, usagef("--missing-value applies to --number fields; none given")
+	}
+	if set["time-zone"] && !hasTime {
+		return nil, usagef("--time-zone applies to --time fields; none given")
+	}
+	return out, nil
+}
+
+// fieldNames lists the names of table fields.
+func fieldNames(fs []spec.TableField) []string {
+	var out []string
+	for _, f := range fs {
+		out = append(out, f.Name)
+	}
+	return out
 }
 
 // settings validates the analysis flags before any work starts.
@@ -290,6 +367,16 @@ func (f *analysisFlags) settings(in spec.Input, set map[string]bool) (*spec.Sett
 	}
 	if s.Norm, err = weight.ParseNorm(f.norm); err != nil {
 		return nil, wrap("norm", err)
+	}
+	if s.Fields, err = f.tableFields(set); err != nil {
+		return nil, err
+	}
+	for _, tf := range s.Fields {
+		for _, t := range in.Text {
+			if t == tf.Name {
+				return nil, usagef("--%s %s: %q is a text field too", tf.Kind, tf.Name, t)
+			}
+		}
 	}
 	if f.hash != "" {
 		for _, v := range []string{"min-docs", "max-doc-share", "max-terms", "unseen"} {
@@ -558,6 +645,34 @@ func specSetting(name string, c *spec.Content) string {
 		return "words " + c.NGrams.Words + ", chars " + c.NGrams.Chars
 	case "tf", "idf", "norm":
 		return "tf " + c.Weights.TF + ", idf " + c.Weights.IDF + ", norm " + c.Weights.Norm
+	case "category", "number", "time", "missing-value", "time-zone":
+		if len(c.Fields) == 0 {
+			return "no table fields"
+		}
+		var parts []string
+		for _, f := range c.Fields {
+			d := f.Kind + " " + f.Name
+			switch {
+			case f.Number != nil:
+				var tr []string
+				if f.Number.Log {
+					tr = append(tr, "log")
+				}
+				if f.Number.Standard {
+					tr = append(tr, "standard")
+				}
+				if len(tr) > 0 {
+					d += ":" + strings.Join(tr, ",")
+				}
+				if len(f.Number.Sentinels) > 0 {
+					d += " (missing: " + strings.Join(f.Number.Sentinels, " ") + ")"
+				}
+			case f.Time != nil:
+				d += ":" + f.Time.Layout + " in " + f.Time.Zone
+			}
+			parts = append(parts, d)
+		}
+		return strings.Join(parts, ", ")
 	case "hash", "seed", "signed":
 		if h := c.Hashing; h != nil {
 			return fmt.Sprintf("hashing width %d, seed %d, signed %v", h.Width, h.Seed, h.Signed)

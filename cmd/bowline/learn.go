@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/atomicfile"
+	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
@@ -80,6 +81,17 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	st, err := an.settings(specInput(copts), c.set)
 	if err != nil {
 		return err
+	}
+	if len(st.Fields) > 0 {
+		switch {
+		case copts.Format == corpus.Lines:
+			return usagef("--%s: the lines format has no fields besides the text; use tsv, csv or jsonl", st.Fields[0].Kind)
+		case lf.countsOut != "":
+			return usagef("--%s does not go with --counts-out: count shards hold text counts; learn table fields in one pass", st.Fields[0].Kind)
+		case old != nil:
+			return usagef("--%s does not go with --extend: table-field columns follow the vocabulary, where appended keys would go", st.Fields[0].Kind)
+		}
+		copts.Fields = fieldNames(st.Fields)
 	}
 	if st.Mode == spec.ModeHashing && of.featureMap != "" {
 		return usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
@@ -270,7 +282,7 @@ func writeFeatureMap(path string, s *spec.Spec, base int) error {
 	}
 	if u := v.Unseen; u != "drop" {
 		n := len(v.Keys)
-		cols := int(s.Columns()) - n
+		cols := int(s.Columns()) - n - len(s.Content.FieldColumns())
 		for j := 0; j < cols; j++ {
 			name := "(unseen)"
 			if strings.HasPrefix(u, "hash:") {
@@ -278,6 +290,10 @@ func writeFeatureMap(path string, s *spec.Spec, base int) error {
 			}
 			entries = append(entries, svmlight.MapEntry{Index: n + j, Feature: name, Docs: 0})
 		}
+	}
+	// Table-field columns follow the text columns.
+	for _, fc := range s.Content.FieldColumns() {
+		entries = append(entries, svmlight.MapEntry{Index: len(entries), Feature: fc.Feature, Docs: fc.Docs})
 	}
 	err := atomicfile.WriteFile(path, func(w io.Writer) error { return svmlight.WriteFeatureMap(w, base, entries) })
 	if err != nil {
