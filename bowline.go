@@ -14,6 +14,7 @@ package bowline
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"sort"
 	"strings"
 
@@ -26,6 +27,7 @@ type Encoder struct {
 	spec   *spec.Spec
 	enc    *spec.Encoder
 	fields []string
+	table  []string // table fields (categories, numbers, times)
 }
 
 // Load reads the spec file at path (plain or gzipped JSON), refuses it when
@@ -60,7 +62,7 @@ func New(s *spec.Spec) (*Encoder, error) {
 	if len(fields) == 0 {
 		return nil, errors.New("bowline: spec names no text field")
 	}
-	return &Encoder{spec: s, enc: enc, fields: fields}, nil
+	return &Encoder{spec: s, enc: enc, fields: fields, table: enc.TableFields()}, nil
 }
 
 // Fingerprint is the spec's fingerprint: "sha256:" and 64 hex digits.
@@ -76,19 +78,27 @@ func (e *Encoder) Columns() int { return e.enc.Columns() }
 // reads them. The caller must not change the slice.
 func (e *Encoder) Fields() []string { return e.fields }
 
+// TableFields returns the names of the spec's table fields (categories,
+// numbers, timestamps read beside the text), in the order the spec reads
+// them; nil when it has none. The caller must not change the slice.
+func (e *Encoder) TableFields() []string { return e.table }
+
 // A Document is one text to encode.
 type Document struct {
 	// ID is copied to the row; bowline does not read it.
 	ID string
 	// Text is the text of a spec with a single text field. An empty Text
 	// (with no Fields) is an empty document: it gives an empty row, as an
-	// empty record does in "bowline encode".
+	// empty record does in "bowline encode". Text may come with Fields
+	// that name table fields only.
 	Text string
 	// Fields holds the text of each field by name, for a spec with several
 	// text fields (it may also name the single field of a one-field spec).
-	// Every field of the spec must be present; names the spec does not
-	// know are refused. A field present with an empty value is an empty
-	// text.
+	// Every text field of the spec must be present; names the spec does
+	// not know are refused. A field present with an empty value is an
+	// empty text. Fields also carries the values of the spec's table
+	// fields, as text ("harbour", "34", "2024-03-15T06:00:00Z"); a table
+	// field that is absent or empty is missing.
 	Fields map[string]string
 }
 
@@ -132,12 +142,28 @@ func (e *DocumentError) Error() string {
 	return b.String()
 }
 
-// Texts returns the document's text fields in the spec's order, the form
-// the spec package's encoder takes. It returns a *DocumentError when a
-// field is missing or unknown.
+// Texts returns the document's text fields in the spec's order, followed
+// by the values of its table fields in the order of TableFields (nil when
+// absent): the form EncodeTexts takes. It returns a *DocumentError when a
+// text field is missing or a field is unknown.
 func (e *Encoder) Texts(d Document) ([][]byte, error) {
-	texts := make([][]byte, len(e.fields))
-	if len(e.fields) == 1 && len(d.Fields) == 0 {
+	texts, err := e.texts(d)
+	if err != nil || len(e.table) == 0 {
+		return texts, err
+	}
+	for _, f := range e.table {
+		if v, ok := d.Fields[f]; ok {
+			texts = append(texts, []byte(v))
+		} else {
+			texts = append(texts, nil)
+		}
+	}
+	return texts, nil
+}
+
+func (e *Encoder) texts(d Document) ([][]byte, error) {
+	texts := make([][]byte, len(e.fields), len(e.fields)+len(e.table))
+	if len(e.fields) == 1 && e.onlyTable(d.Fields) {
 		texts[0] = []byte(d.Text) // "" is an empty document
 		return texts, nil
 	}
@@ -160,14 +186,31 @@ func (e *Encoder) Texts(d Document) ([][]byte, error) {
 	if len(d.Fields) > len(e.fields) {
 		var unknown []string
 		for k := range d.Fields {
-			if !e.hasField(k) {
+			if !e.hasField(k) && !slices.Contains(e.table, k) {
 				unknown = append(unknown, k)
 			}
 		}
-		sort.Strings(unknown) // report the same field whatever the map order
-		return nil, &DocumentError{ID: d.ID, Field: unknown[0], Reason: fmt.Sprintf("not a text field of the spec (%s)", strings.Join(e.fields, ", "))}
+		if len(unknown) > 0 {
+			sort.Strings(unknown) // report the same field whatever the map order
+			reason := fmt.Sprintf("not a text field of the spec (%s)", strings.Join(e.fields, ", "))
+			if len(e.table) > 0 {
+				reason = fmt.Sprintf("not a field of the spec (text: %s; table: %s)", strings.Join(e.fields, ", "), strings.Join(e.table, ", "))
+			}
+			return nil, &DocumentError{ID: d.ID, Field: unknown[0], Reason: reason}
+		}
 	}
 	return texts, nil
+}
+
+// onlyTable reports whether every name in m is a table field (true for an
+// empty m): the text of a one-field spec then comes from Document.Text.
+func (e *Encoder) onlyTable(m map[string]string) bool {
+	for k := range m {
+		if !slices.Contains(e.table, k) {
+			return false
+		}
+	}
+	return true
 }
 
 func (e *Encoder) hasField(name string) bool {
@@ -191,12 +234,28 @@ func (e *Encoder) Encode(d Document) (Row, error) {
 }
 
 // EncodeTexts encodes one document given as its text fields in the order
-// of Fields, the form Texts returns; id is copied to the row. It is safe
-// for concurrent use.
+// of Fields, optionally followed by the values of the table fields in the
+// order of TableFields (nil or empty for missing; leaving them all out
+// makes them all missing): the form Texts returns. id is copied to the
+// row. A table-field value that cannot be read (not a number, a negative
+// number under log, not a time in the field's layout) is a
+// *DocumentError naming the field. It is safe for concurrent use.
 func (e *Encoder) EncodeTexts(id string, texts [][]byte) (Row, error) {
-	if len(texts) != len(e.fields) {
+	n := len(e.fields)
+	if len(texts) != n && len(texts) != n+len(e.table) {
 		return Row{ID: id}, &DocumentError{ID: id, Reason: fmt.Sprintf("%d text fields given; the spec reads %d (%s)", len(texts), len(e.fields), strings.Join(e.fields, ", "))}
 	}
-	r, st := e.enc.Encode(texts)
+	var values [][]byte
+	if len(texts) > n {
+		values = texts[n:]
+	}
+	r, st, err := e.enc.EncodeFields(texts[:n], values)
+	if err != nil {
+		var fe *spec.FieldError
+		if errors.As(err, &fe) {
+			return Row{ID: id}, &DocumentError{ID: id, Field: fe.Field, Reason: fmt.Sprintf("%q: %s", fe.Value, fe.Reason)}
+		}
+		return Row{ID: id}, &DocumentError{ID: id, Reason: err.Error()}
+	}
 	return Row{ID: id, Indices: r.Indices, Values: r.Values, Unseen: st.Unseen, Features: st.Features}, nil
 }
