@@ -36,6 +36,9 @@ type Options struct {
 	// Progress, when not nil, is called from the reading goroutine with
 	// the bytes read so far.
 	Progress func(bytesRead int64)
+	// Reject, when not nil, takes each record that cannot be read (with
+	// the record as stored) instead of ending the run (--on-error skip).
+	Reject func(err error, raw []byte) error
 }
 
 // Result is what Compare found. JSON field names are stable: scripts
@@ -253,7 +256,19 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 	}
 	b := <-free
 	b.reset()
-	for r.Scan() {
+	for {
+		if !r.Scan() {
+			if err := r.Err(); err != nil && o.Reject != nil {
+				raw := r.Raw()
+				if r.Skip() {
+					if werr := o.Reject(err, raw); werr != nil {
+						return nil, werr
+					}
+					continue
+				}
+			}
+			break
+		}
 		rec := r.Record()
 		if rec.Label != nil {
 			hasLabel = true

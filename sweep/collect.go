@@ -84,11 +84,29 @@ func (c *collector) add(key []byte, code int) {
 }
 
 // read collects every record of r.
-func (c *collector) read(r *corpus.Reader, name string, withLabels bool) (*docSet, error) {
+func (c *collector) read(r *corpus.Reader, name string, withLabels bool, reject func(error, []byte) error) (*docSet, error) {
 	d := &docSet{name: name, start: []int{0}}
 	c.cur = d
-	for r.Scan() {
+	for {
+		if !r.Scan() {
+			if err := r.Err(); err != nil && reject != nil {
+				raw := r.Raw()
+				if r.Skip() {
+					if werr := reject(err, raw); werr != nil {
+						return nil, werr
+					}
+					continue
+				}
+			}
+			break
+		}
 		rec := r.Record()
+		if withLabels && len(rec.Label) == 0 && reject != nil {
+			if err := reject(&pipeline.RecordError{File: name, Line: rec.Line, Err: fmt.Errorf("label field is empty")}, r.Raw()); err != nil {
+				return nil, err
+			}
+			continue
+		}
 		if c.doc == math.MaxInt32 {
 			return nil, fmt.Errorf("%s: more than %d documents", name, math.MaxInt32)
 		}

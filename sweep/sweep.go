@@ -47,6 +47,10 @@ type Options struct {
 	// ExplainWidth (0: none). ExplainWidth 0 means the widest width.
 	Explain      int
 	ExplainWidth uint64
+	// Reject, when not nil, takes each record that cannot be read or has
+	// an empty label (with the record as stored) instead of ending the run
+	// (--on-error skip).
+	Reject func(err error, raw []byte) error
 }
 
 // Result is everything a sweep measured. Field names in JSON are stable.
@@ -211,7 +215,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 	hasLabel := s.Input.Label != ""
 	t := &keyTable{ids: map[string]int32{}}
 	c := &collector{t: t, z: an.NewAnalyzer(), h: h, counts: vocab.NewCounts(), train: true}
-	tr, err := c.read(train, trainName, hasLabel)
+	tr, err := c.read(train, trainName, hasLabel, o.Reject)
 	if err != nil {
 		return nil, err
 	}
@@ -222,7 +226,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 	var te *docSet
 	if holdout != nil {
 		c.train = false
-		if te, err = c.read(holdout, holdoutName, hasLabel); err != nil {
+		if te, err = c.read(holdout, holdoutName, hasLabel, o.Reject); err != nil {
 			return nil, err
 		}
 	}

@@ -23,6 +23,8 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 	var top int
 	in.register(c.fs)
 	rf.register(c.fs)
+	var ef errorFlags
+	ef.register(c.fs)
 	c.fs.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
 	c.fs.IntVar(&top, "top", drift.DefaultTop, "how many unseen and moved keys to list")
 	c.fs.StringVar(&reportPath, "report", "", "also write the figures to FILE.json or FILE.html")
@@ -39,6 +41,9 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 		return usagef("--top: %d is not a positive number", top)
 	}
 	if err := rf.check(); err != nil {
+		return err
+	}
+	if err := ef.check(); err != nil {
 		return err
 	}
 	if err := checkReportPath(reportPath); err != nil {
@@ -62,15 +67,28 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer r.Close()
+	rej, err := ef.open()
+	if err != nil {
+		return err
+	}
+	defer rej.abort()
+	var reject func(error, []byte) error
+	if rj := rej.rejects(); rj != nil {
+		reject = rj.Add
+	}
 	bar := newProgress(rf.progress, r.Size(), stderr, "drift")
-	res, err := drift.Compare(s, r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: bar.set})
+	res, err := drift.Compare(s, r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: bar.set, Reject: reject})
 	bar.finish()
 	if err != nil {
+		return err
+	}
+	if err := rej.commit(stderr); err != nil {
 		return err
 	}
 	if err := res.WriteText(stdout); err != nil {
 		return &ioError{err}
 	}
+	rej.summary(stderr)
 	if reportPath == "" {
 		return nil
 	}

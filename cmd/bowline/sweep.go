@@ -34,6 +34,8 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	in.register(c.fs)
 	an.register(c.fs)
 	rf.register(c.fs)
+	var ef errorFlags
+	ef.register(c.fs)
 	c.fs.StringVar(&holdout, "holdout", "", "held-out corpus (same format and fields) for accuracy figures")
 	c.fs.StringVar(&widths, "widths", "2^10..2^24", "hashing widths: range A..B (step ×2) or list A,B,C")
 	c.fs.Float64Var(&cval, "c", 1, "regularization C of the logistic regression (as liblinear's -c)")
@@ -50,6 +52,9 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return usagef("--hash: sweep measures many widths; give them with --widths")
 	}
 	if err := rf.check(); err != nil {
+		return err
+	}
+	if err := ef.check(); err != nil {
 		return err
 	}
 	ws, err := sweep.ParseWidths(widths)
@@ -109,6 +114,15 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer r.Close()
+	rej, err := ef.open()
+	if err != nil {
+		return err
+	}
+	defer rej.abort()
+	var reject func(error, []byte) error
+	if rj := rej.rejects(); rj != nil {
+		reject = rj.Add
+	}
 	var hr *corpus.Reader
 	if holdout != "" {
 		hopts, err := in.options(holdout, nil, c.set)
@@ -121,13 +135,17 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		defer hr.Close()
 	}
 	res, err := sweep.Run(r, path, hr, holdout, sweep.Options{Settings: st, Widths: ws, Seed: an.seed, Signed: an.signed,
-		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew})
+		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew, Reject: reject})
 	if err != nil {
+		return err
+	}
+	if err := rej.commit(stderr); err != nil {
 		return err
 	}
 	if err := res.WriteText(stdout); err != nil {
 		return &ioError{err}
 	}
+	rej.summary(stderr)
 	fmt.Fprintf(stderr, "\nelapsed %s\n", time.Since(start).Round(time.Millisecond))
 	if report != "" {
 		err := atomicfile.WriteFile(report, func(w io.Writer) error {
