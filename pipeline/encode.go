@@ -440,6 +440,9 @@ func FieldFigures(c *spec.Content, stats []spec.FieldStat) []report.FieldFigures
 		ff := report.FieldFigures{Name: f.Name, Kind: f.Kind, Docs: st.Docs, Missing: st.Missing, MissingShare: share(st.Missing, st.Docs)}
 		switch f.Kind {
 		case spec.KindCategory:
+			if c.Mode != spec.ModeVocabulary {
+				break // hashing mode stores no levels to compare with
+			}
 			ff.Category = &report.CategoryFigures{Levels: int64(len(f.Category.Levels)), LevelsSeen: st.DistinctSeen,
 				Other: st.Other, OtherShare: share(st.Other, st.Docs), Unseen: st.Unseen, UnseenShare: share(st.Unseen, st.Docs)}
 		case spec.KindNumber:

@@ -159,8 +159,9 @@ type FieldFigures struct {
 	Docs         int64   `json:"docs"`
 	Missing      int64   `json:"missing"`
 	MissingShare float64 `json:"missing_share"`
-	// Category is set for a category field, Number for a number field,
-	// Time for a time field.
+	// Category is set for a category field of a vocabulary spec (a
+	// hashing spec stores no levels), Number for a number field, Time for
+	// a time field.
 	Category *CategoryFigures `json:"category,omitempty"`
 	Number   *NumberFigures   `json:"number,omitempty"`
 	Time     *TimeFigures     `json:"time,omitempty"`

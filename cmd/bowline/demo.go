@@ -66,7 +66,9 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 		}
 	}
 	workers := strconv.Itoa(rf.workers)
-	common := []string{"--text", "text", "--label", "team", "--id", "id", "--workers", workers, "--progress", "never"}
+	common := []string{"--text", "text", "--label", "team", "--id", "id", "--workers", workers, "--progress", "never",
+		// The table columns of the ticket export beside the text.
+		"--category", "zone", "--category", "plan", "--number", "age:standard", "--missing-value", "unknown", "--time", "created"}
 	steps := []struct {
 		title string
 		args  []string
