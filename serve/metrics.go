@@ -18,7 +18,7 @@ var metricPaths = []string{"/v1/encode", "/v1/spec", "/healthz", "/metrics", "ot
 var metricCodes = []int{200, 400, 404, 405, 413, 415, 422, 500}
 
 // Error kinds (see RequestError.Kind).
-var errorKinds = []string{"malformed", "too_large", "too_many_documents", "content_type", "no_text", "method", "not_found", "internal"}
+var errorKinds = []string{"malformed", "too_large", "too_many_documents", "content_type", "no_text", "bad_value", "method", "not_found", "internal"}
 
 // latencyBuckets are the upper bounds, in seconds, of the encode latency
 // histogram (the +Inf bucket is implicit).

@@ -15,7 +15,13 @@
 // numbers encode writes for the same text. Every error is a JSON object
 // {"error":"message"} with status 400 (malformed request), 404 (unknown
 // path), 405 (wrong method), 413 (body or document count over the limit),
-// 415 (not application/json) or 422 (a document without its text).
+// 415 (not application/json) or 422 (a document without its text, or with
+// a table-field value that cannot be read).
+//
+// A spec with table fields (categories, numbers, timestamps beside the
+// text) takes their values as strings in "fields", next to the text
+// fields: {"fields":{"text":"...","zone":"harbour","age":"34"}}; a table
+// field left out or empty is missing.
 //
 // Reload swaps in a new spec atomically: a request is answered entirely
 // with the spec in force when it started, and a spec that fails to load
@@ -320,9 +326,19 @@ func (h *Handler) encode(w http.ResponseWriter, r *http.Request) (int, int, *Req
 			return fail(requestErrorf(http.StatusUnprocessableEntity, "no_text", "documents[%d]: %v", i, err))
 		}
 	}
+	// A table-field value that cannot be read (not a number, not a time)
+	// is found while encoding; the first one, by document order, refuses
+	// the whole request.
+	var bad []error
+	if len(enc.TableFields()) > 0 {
+		bad = make([]error, len(texts))
+	}
 	encodeRange := func(lo, hi int) {
 		for i := lo; i < hi; i++ {
-			row, _ := enc.EncodeTexts(req.Documents[i].ID, texts[i]) // checked above
+			row, err := enc.EncodeTexts(req.Documents[i].ID, texts[i]) // text fields checked above
+			if err != nil && bad != nil {
+				bad[i] = err
+			}
 			rows[i] = rowOut{id: row.ID, indices: row.Indices, values: row.Values, unseen: row.Unseen, features: row.Features}
 		}
 	}
@@ -337,6 +353,11 @@ func (h *Handler) encode(w http.ResponseWriter, r *http.Request) (int, int, *Req
 		wg.Wait()
 	} else {
 		encodeRange(0, len(texts))
+	}
+	for i, err := range bad {
+		if err != nil {
+			return fail(requestErrorf(http.StatusUnprocessableEntity, "bad_value", "documents[%d]: %v", i, err))
+		}
 	}
 	var features, unseen uint64
 	for i := range rows {
