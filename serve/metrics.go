@@ -29,7 +29,7 @@ var latencyBuckets = []float64{0.0005, 0.001, 0.0025, 0.005, 0.01, 0.025, 0.05, 
 type Metrics struct {
 	requests  [5][8]atomic.Uint64 // [path][code]
 	documents atomic.Uint64
-	errors    [8]atomic.Uint64 // by kind
+	errors    [9]atomic.Uint64 // by kind (errorKinds)
 	features  atomic.Uint64
 	unseen    atomic.Uint64
 	buckets   [14]atomic.Uint64 // not cumulative; summed when written
