@@ -259,3 +259,38 @@ func (t *Tally) Collisions(width uint64) Collisions {
 	c.Rate = float64(c.Colliding) / float64(c.Keys)
 	return c
 }
+
+// BucketLoad is a bucket and the number of distinct keys in it.
+type BucketLoad struct {
+	Bucket uint64
+	Keys   int64
+}
+
+// Crowded returns the n buckets of width that hold the most distinct keys
+// (at least two), most crowded first, ties by bucket number.
+func (t *Tally) Crowded(width uint64, n int) []BucketLoad {
+	counts := map[uint64]int64{}
+	t.each(func(s uint64) { counts[BucketOf(s, width)]++ })
+	var out []BucketLoad
+	for b, k := range counts {
+		if k > 1 {
+			out = append(out, BucketLoad{b, k})
+		}
+	}
+	slices.SortFunc(out, func(a, b BucketLoad) int {
+		if a.Keys != b.Keys {
+			return int(b.Keys - a.Keys)
+		}
+		if a.Bucket < b.Bucket {
+			return -1
+		}
+		if a.Bucket > b.Bucket {
+			return 1
+		}
+		return 0
+	})
+	if len(out) > n {
+		out = out[:n]
+	}
+	return out
+}

@@ -629,3 +629,24 @@ func TestTallyMatchesMap(t *testing.T) {
 		}
 	}
 }
+
+// TestCrowded: buckets ranked by distinct keys, computed by hand on sums
+// that land in known buckets of width 10.
+func TestCrowded(t *testing.T) {
+	tl := NewTally()
+	for _, s := range []uint64{3, 13, 23, 33, 7, 17, 5, 15, 25, 1, 13} {
+		tl.Add(s)
+	}
+	// Width 10: bucket 3 holds 3,13,23,33 (4 keys); 5 holds 5,15,25 (3);
+	// 7 holds 7,17 (2); 1 holds one key and is not crowded.
+	got := tl.Crowded(10, 5)
+	want := []BucketLoad{{3, 4}, {5, 3}, {7, 2}}
+	if len(got) != len(want) {
+		t.Fatalf("got %v, want %v", got, want)
+	}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Fatalf("got %v, want %v", got, want)
+		}
+	}
+}

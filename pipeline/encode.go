@@ -36,6 +36,10 @@ type EncodeOptions struct {
 	Progress func(bytesRead int64)
 	// TopUnseen is how many unseen keys the figures list.
 	TopUnseen int
+	// Crowded, when above 0, asks for the most crowded buckets (hashing
+	// mode) in the figures' collision account, without their keys; see
+	// spec.ExplainBuckets for the keys.
+	Crowded int
 	// Rejects, when not nil, takes records that cannot be read or whose
 	// label cannot be mapped, instead of ending the run (--on-error skip).
 	Rejects *Rejects
@@ -187,6 +191,11 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 		fig.OOV = oovFigures(&ws, o.TopUnseen)
 	} else if ws.Tally != nil {
 		fig.Collisions = collisionFigures(ws.Tally, s.Content.Hashing.Width)
+		if o.Crowded > 0 {
+			for _, b := range ws.Tally.Crowded(s.Content.Hashing.Width, o.Crowded) {
+				fig.Collisions.Crowded = append(fig.Collisions.Crowded, report.CrowdedBucket{Column: int64(b.Bucket) + int64(o.Base), Keys: b.Keys})
+			}
+		}
 	}
 	if readBytes == 0 {
 		readBytes = inBytes

@@ -106,6 +106,19 @@ type Collisions struct {
 	Colliding    int64   `json:"colliding"`
 	Rate         float64 `json:"rate"`
 	ExpectedRate float64 `json:"expected_rate"`
+	// Crowded lists the most crowded buckets when asked for
+	// (encode --explain-buckets), most distinct keys first.
+	Crowded []CrowdedBucket `json:"crowded,omitempty"`
+}
+
+// CrowdedBucket is one hashing bucket shared by several distinct keys.
+type CrowdedBucket struct {
+	// Column is the bucket's column index as written in the rows.
+	Column int64 `json:"column"`
+	// Keys is the number of distinct keys in the bucket.
+	Keys int64 `json:"keys"`
+	// Names are the keys themselves, sorted by bytes.
+	Names []string `json:"names"`
 }
 
 // Sparsity describes the rows written.

@@ -148,6 +148,13 @@ func (f *Figures) collisionSection() section {
 		{"colliding keys", itoa(c.Colliding)},
 		{"occupied buckets", itoa(c.Occupied) + "  expected " + strconv.FormatFloat(c.ExpectedOccupied, 'f', 1, 64)},
 	}
+	for i, b := range c.Crowded {
+		label := ""
+		if i == 0 {
+			label = "crowded buckets"
+		}
+		s.Pairs = append(s.Pairs, pair{label, "column " + itoa(b.Column) + ": " + strings.Join(b.Names, ", ")})
+	}
 	return s
 }
 

@@ -1,12 +1,15 @@
 package main
 
 import (
+	"bufio"
 	"fmt"
 	"io"
 	"strings"
 
 	"github.com/bowline/bowline/atomicfile"
+	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/pipeline"
+	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 )
 
@@ -26,6 +29,10 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	c.fs.BoolVar(&of.withIDs, "with-ids", false, "append \"# id\" to every row")
 	c.fs.StringVar(&of.featureMap, "feature-map", "", "also write the feature map to FILE")
 	c.fs.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
+	var explainN int
+	var explainOut string
+	c.fs.IntVar(&explainN, "explain-buckets", 0, "hashing mode: name the keys of the N most crowded buckets")
+	c.fs.StringVar(&explainOut, "explain-out", "", "with --explain-buckets: also write column, keys in bucket and key to FILE")
 	of.registerReport(c)
 	if err := refuseLearnFlags(c, args, specPath); err != nil {
 		return err
@@ -58,6 +65,18 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	s, err := spec.Load(specPath)
 	if err != nil {
 		return err
+	}
+	if explainN < 0 {
+		return usagef("--explain-buckets: %d is negative", explainN)
+	}
+	if explainN > 0 && s.Content.Hashing == nil {
+		return usagef("--explain-buckets: the spec is in vocabulary mode, where every key has its own column")
+	}
+	if explainOut != "" && explainN == 0 {
+		return usagef("--explain-out needs --explain-buckets N")
+	}
+	if explainN > 0 && len(c.pos) == 1 && c.pos[0] == "-" {
+		return usagef("--explain-buckets reads the corpus a second time, so it needs a file, not standard input")
 	}
 	if of.featureMap != "" && s.Content.Vocabulary == nil {
 		return usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
@@ -92,7 +111,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	defer rej.abort()
 	bw := newBufWriter(out)
 	bar := newProgress(rf.progress, r.Size(), stderr, "encode")
-	fig, err := pipeline.Encode(r, enc, bw, pipeline.EncodeOptions{Name: path, Workers: rf.workers, Base: of.indexBase, WithIDs: of.withIDs, LabelFallback: fb, Progress: bar.set, Rejects: rej.rejects()})
+	fig, err := pipeline.Encode(r, enc, bw, pipeline.EncodeOptions{Name: path, Workers: rf.workers, Base: of.indexBase, WithIDs: of.withIDs, LabelFallback: fb, Progress: bar.set, Rejects: rej.rejects(), Crowded: explainN})
 	bar.finish()
 	if err != nil {
 		return err
@@ -111,10 +130,64 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 			return err
 		}
 	}
+	if explainN > 0 && fig.Collisions != nil && len(fig.Collisions.Crowded) > 0 {
+		if err := explainBuckets(path, copts, s, fig.Collisions.Crowded, int64(of.indexBase), explainOut); err != nil {
+			return err
+		}
+	}
 	fig.WriteText(stderr)
 	if of.out != "-" {
 		fmt.Fprintf(stderr, "\n%d rows written to %s\n", fig.Docs, of.out)
 	}
 	rej.summary(stderr)
 	return writeReport(of.report, fig)
+}
+
+// explainBuckets reads the corpus again and names the keys that share the
+// crowded buckets, writing them to out when it is not empty.
+func explainBuckets(path string, copts corpus.Options, s *spec.Spec, crowded []report.CrowdedBucket, base int64, out string) error {
+	a, err := s.Content.Analysis()
+	if err != nil {
+		return err
+	}
+	buckets := make([]uint64, len(crowded))
+	for i, b := range crowded {
+		buckets[i] = uint64(b.Column - base)
+	}
+	bk := a.NewBucketKeys(*s.Content.Hashing, buckets, 1000)
+	copts.StrictUTF8 = false
+	r, err := openCorpus(path, copts)
+	if err != nil {
+		return err
+	}
+	defer r.Close()
+	for {
+		if !r.Scan() {
+			if r.Err() != nil && r.Skip() {
+				continue // already reported (or rejected) by the encode pass
+			}
+			break
+		}
+		bk.Observe(r.Record().Text)
+	}
+	for i := range crowded {
+		crowded[i].Names = bk.Keys(buckets[i])
+	}
+	if out == "" {
+		return nil
+	}
+	err = atomicfile.WriteFile(out, func(w io.Writer) error {
+		bw := bufio.NewWriter(w)
+		fmt.Fprintf(bw, "column\tkeys\tkey\n")
+		for _, b := range crowded {
+			for _, k := range b.Names {
+				fmt.Fprintf(bw, "%d\t%d\t%s\n", b.Column, b.Keys, k)
+			}
+		}
+		return bw.Flush()
+	})
+	if err != nil {
+		return &ioError{err}
+	}
+	return nil
 }
