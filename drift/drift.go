@@ -12,6 +12,8 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/pipeline"
+	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
@@ -79,6 +81,10 @@ type Result struct {
 	Labels *LabelShift `json:"labels"`
 	// Notes say in words what could not be computed and why.
 	Notes []string `json:"notes"`
+	// Fields are the figures of the spec's table fields over the corpus
+	// (missing, unseen levels, numbers out of the training range, mean and
+	// sd seen against frozen), in the spec's order; empty when it has none.
+	Fields []report.FieldFigures `json:"fields"`
 }
 
 // OOV counts emitted features and distinct keys, all and not in the
@@ -254,6 +260,10 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 			}
 		}(w)
 	}
+	fobs, err := spec.NewFieldObserver(s)
+	if err != nil {
+		return nil, fmt.Errorf("drift: %w", err)
+	}
 	b := <-free
 	b.reset()
 	for {
@@ -270,6 +280,15 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 			break
 		}
 		rec := r.Record()
+		if err := observeFields(fobs, rec, len(c.Fields), o.Name); err != nil {
+			if o.Reject == nil || !isFieldError(err) {
+				return nil, err
+			}
+			if werr := o.Reject(err, r.Raw()); werr != nil {
+				return nil, werr
+			}
+			continue
+		}
 		if rec.Label != nil {
 			hasLabel = true
 			if len(rec.Label) == 0 {
@@ -309,6 +328,7 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 		total.merge(w)
 	}
 	res.EmptyDocs = total.empty
+	res.Fields = pipeline.FieldFigures(c, fobs.Stats())
 	if sh.vocab != nil {
 		vocabFigures(res, c, total, top)
 	} else {

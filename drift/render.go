@@ -8,6 +8,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/bowline/bowline/report"
 )
 
 // Write renders r to w in the named format: "text", "json" or "html".
@@ -39,6 +41,9 @@ func (r *Result) WriteJSON(w io.Writer) error {
 	}
 	if c.Notes == nil {
 		c.Notes = []string{}
+	}
+	if c.Fields == nil {
+		c.Fields = []report.FieldFigures{}
 	}
 	if c.Labels != nil && c.Labels.Labels == nil {
 		l := *c.Labels
@@ -201,6 +206,9 @@ func (r *Result) sections() []section {
 		}
 		s.plots = []string{"labels"}
 		out = append(out, s)
+	}
+	if len(r.Fields) > 0 {
+		out = append(out, r.fieldSection())
 	}
 	if len(r.Notes) > 0 {
 		out = append(out, section{Title: "notes", Notes: r.Notes})

@@ -405,3 +405,23 @@ func (o *FieldObserver) Stats() []FieldStat {
 	}
 	return out
 }
+
+// NewFieldObserver returns an observer for the table fields of s without
+// building a whole encoder (for drift figures).
+func NewFieldObserver(s *Spec) (*FieldObserver, error) {
+	c := &s.Content
+	e := &Encoder{spec: s}
+	var err error
+	if e.analysis, err = c.Analysis(); err != nil {
+		return nil, err
+	}
+	if c.Mode == ModeHashing && c.Hashing != nil {
+		if e.hasher, err = hashing.New(c.Hashing.Width, c.Hashing.Seed, c.Hashing.Signed); err != nil {
+			return nil, err
+		}
+	}
+	if err := e.prepareFields(); err != nil {
+		return nil, err
+	}
+	return e.NewFieldObserver(), nil
+}
