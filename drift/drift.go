@@ -81,6 +81,9 @@ type Result struct {
 	Labels *LabelShift `json:"labels"`
 	// Notes say in words what could not be computed and why.
 	Notes []string `json:"notes"`
+	// Curves describe the spec's vocabulary (rank-frequency curve and
+	// document-count histogram with the cutoffs) for the HTML plots.
+	Curves *report.VocabCurves `json:"vocabulary_curves,omitempty"`
 	// Fields are the figures of the spec's table fields over the corpus
 	// (missing, unseen levels, numbers out of the training range, mean and
 	// sd seen against frozen), in the spec's order; empty when it has none.
@@ -220,7 +223,7 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 	if err != nil {
 		return nil, fmt.Errorf("drift: %w", err)
 	}
-	res := &Result{Spec: s.Fingerprint, Input: o.Name, Mode: c.Mode, TrainingDocs: c.Docs}
+	res := &Result{Spec: s.Fingerprint, Input: o.Name, Mode: c.Mode, TrainingDocs: c.Docs, Curves: pipeline.Curves(s)}
 	top := o.Top
 	if top <= 0 {
 		top = DefaultTop

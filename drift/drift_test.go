@@ -240,8 +240,8 @@ func TestRenderings(t *testing.T) {
 		t.Fatal(err)
 	}
 	h := html.String()
-	if n := strings.Count(h, "<svg"); n != 4 {
-		t.Errorf("HTML has %d plots, want 4 (OOV, JSD, moved keys, labels)", n)
+	if n := strings.Count(h, "<svg"); n != 6 {
+		t.Errorf("HTML has %d plots, want 6 (rank-frequency, document counts, OOV, JSD, moved keys, labels)", n)
 	}
 	for _, bad := range []string{"<script", " src=", "<link"} {
 		if strings.Contains(h, bad) {

@@ -3,6 +3,7 @@ package drift
 import (
 	"bytes"
 	"fmt"
+	"github.com/bowline/bowline/report"
 	"html/template"
 	"image/color"
 	"io"
@@ -22,8 +23,18 @@ import (
 // elsewhere and needs no script.
 func (r *Result) WriteHTML(w io.Writer) error {
 	page := htmlPage{Title: "bowline drift report"}
-	for _, s := range r.sections() {
+	for i, s := range r.sections() {
 		hs := htmlSection{section: s}
+		if i == 0 {
+			// The spec's vocabulary, for comparison with what came.
+			caps, svgs, err := report.CurvePlots(r.Curves)
+			if err != nil {
+				return err
+			}
+			for j := range caps {
+				hs.Plots = append(hs.Plots, htmlPlot{caps[j], svgs[j]})
+			}
+		}
 		for _, name := range s.plots {
 			p, err := r.plot(name)
 			if err != nil {

@@ -189,6 +189,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	fig.Fields = FieldFigures(&s.Content, obs.Stats())
 	if s.Content.Mode == spec.ModeVocabulary {
 		fig.OOV = oovFigures(&ws, o.TopUnseen)
+		fig.Curves = Curves(s)
 	} else if ws.Tally != nil {
 		fig.Collisions = collisionFigures(ws.Tally, s.Content.Hashing.Width)
 		if o.Crowded > 0 {

@@ -235,6 +235,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 		fig.Sparsity.Columns = s.Columns()
 		if s.Content.Mode == spec.ModeVocabulary {
 			fig.Vocabulary = vocabFigures(s, cut, o.TopTerms)
+			fig.Curves = Curves(s)
 		}
 	}
 	if t := merged.Tally(); t != nil {

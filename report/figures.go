@@ -44,6 +44,10 @@ type Figures struct {
 	Sparsity Sparsity `json:"sparsity"`
 	// Vocabulary describes the vocabulary learned (learn only).
 	Vocabulary *VocabFigures `json:"vocabulary,omitempty"`
+	// Curves describe the spec's vocabulary for plots (vocabulary mode):
+	// its rank-frequency curve and the document-count histogram of every
+	// key learn saw, with the cutoffs. Only the HTML report draws them.
+	Curves *VocabCurves `json:"vocabulary_curves,omitempty"`
 	// Labels counts rows per label value as written (empty when unlabeled).
 	Labels []Count `json:"labels,omitempty"`
 	// Fields are the figures of the table fields read beside the text
@@ -226,4 +230,32 @@ type TimeFigures struct {
 	// Layout and Zone are the field's settings.
 	Layout string `json:"layout"`
 	Zone   string `json:"zone"`
+}
+
+// VocabCurves are the shape of a vocabulary, for plots.
+type VocabCurves struct {
+	// RankDocs samples the rank-frequency curve of the kept keys: the
+	// document count of the key at each rank (1 = most documents), at
+	// ranks spaced evenly on a log scale.
+	RankDocs []RankPoint `json:"rank_docs"`
+	// DocHistogram counts the keys learn saw, kept or cut, by document
+	// count: Keys keys had between Lo and Hi documents.
+	DocHistogram []DocBin `json:"doc_histogram"`
+	// MinDocs and MaxDocs are the cutoffs as document counts (MaxDocs is
+	// max-doc-share times the training documents).
+	MinDocs int64   `json:"min_docs"`
+	MaxDocs float64 `json:"max_docs"`
+}
+
+// RankPoint is one point of a rank-frequency curve.
+type RankPoint struct {
+	Rank int64 `json:"rank"`
+	Docs int64 `json:"docs"`
+}
+
+// DocBin is one bin of a document-count histogram.
+type DocBin struct {
+	Lo   int64 `json:"lo"`
+	Hi   int64 `json:"hi"`
+	Keys int64 `json:"keys"`
 }

@@ -154,6 +154,12 @@ func (f *Figures) plotsFor(title string) ([]htmlPlot, error) {
 			[]series{{"missing", miss}, {"unseen level", unseen}, {"out of range", out}})
 		err = add("Per table field: missing values, category levels never seen at learn time, numbers outside the training range.", svg, e)
 	case "out-of-vocabulary":
+		if f.Vocabulary == nil {
+			// encode: the spec's vocabulary curves go with the OOV figures.
+			if err = f.addCurves(add); err != nil {
+				return out, err
+			}
+		}
 		if o := f.OOV; len(o.ByOrder) > 0 {
 			names := make([]string, len(o.ByOrder))
 			tok := make([]float64, len(o.ByOrder))
@@ -188,6 +194,9 @@ func (f *Figures) plotsFor(title string) ([]htmlPlot, error) {
 		if len(f.Vocabulary.TopTerms) > 0 {
 			svg, e := countPlot("Top terms", "documents", f.Vocabulary.TopTerms)
 			err = add("Kept terms with the highest document counts.", svg, e)
+		}
+		if err == nil {
+			err = f.addCurves(add)
 		}
 	case "labels":
 		svg, e := countPlot("Rows per label", "rows", f.Labels)
@@ -324,4 +333,17 @@ func svgOf(p *plot.Plot, w, h vg.Length, err error) (template.HTML, error) {
 		return "", fmt.Errorf("no <svg> element in plot output")
 	}
 	return template.HTML(strings.TrimSpace(s[i:])), nil
+}
+
+func (f *Figures) addCurves(add func(string, template.HTML, error) error) error {
+	caps, svgs, err := CurvePlots(f.Curves)
+	if err != nil {
+		return err
+	}
+	for i := range caps {
+		if err := add(caps[i], svgs[i], nil); err != nil {
+			return err
+		}
+	}
+	return nil
 }
