@@ -30,7 +30,7 @@ func CurvePlots(c *VocabCurves) (captions []string, svgs []template.HTML, err er
 		if err != nil {
 			return nil, nil, fmt.Errorf("report: drawing the document-count histogram: %w", err)
 		}
-		captions = append(captions, "Every key learn saw, kept or cut, by document count (log-log); the dashed lines are the cutoffs --min-docs and --max-doc-share.")
+		captions = append(captions, "Every key learn saw, kept or cut, by document count (log-log; wide bins divided by their width); the dashed lines are the cutoffs --min-docs and --max-doc-share.")
 		svgs = append(svgs, svg)
 	}
 	return captions, svgs, nil
@@ -63,15 +63,18 @@ func histPlot(c *VocabCurves) (*plot.Plot, vg.Length, vg.Length, error) {
 	p := plot.New()
 	p.Title.Text = "Keys by document count"
 	p.X.Label.Text = "documents (bin start)"
-	p.Y.Label.Text = "keys"
+	p.Y.Label.Text = "keys per document count"
 	p.X.Scale, p.Y.Scale = plot.LogScale{}, plot.LogScale{}
 	p.X.Tick.Marker, p.Y.Tick.Marker = plot.LogTicks{Prec: -1}, plot.LogTicks{Prec: -1}
 	pts := make(plotter.XYs, 0, len(c.DocHistogram))
-	ymax := 1.0
+	ymax, ymin := 1.0, 1.0
 	for _, b := range c.DocHistogram {
 		if b.Keys > 0 && b.Lo > 0 {
-			pts = append(pts, plotter.XY{X: float64(b.Lo), Y: float64(b.Keys)})
-			ymax = max(ymax, float64(b.Keys))
+			// Wide bins are divided by their width, so that the curve
+			// keeps its shape where the bins start doubling.
+			y := float64(b.Keys) / float64(b.Hi-b.Lo+1)
+			pts = append(pts, plotter.XY{X: float64(b.Lo), Y: y})
+			ymax, ymin = max(ymax, y), min(ymin, y)
 		}
 	}
 	if len(pts) == 0 {
@@ -87,7 +90,7 @@ func histPlot(c *VocabCurves) (*plot.Plot, vg.Length, vg.Length, error) {
 		if x <= 0 {
 			return nil
 		}
-		v, err := plotter.NewLine(plotter.XYs{{X: x, Y: 1}, {X: x, Y: ymax}})
+		v, err := plotter.NewLine(plotter.XYs{{X: x, Y: ymin}, {X: x, Y: ymax}})
 		if err != nil {
 			return err
 		}
