@@ -1,0 +1,297 @@
+// Command bowline-beam runs bowline learn and bowline encode as Apache Beam
+// pipelines, on Beam's local prism runner or on a cluster runner chosen
+// with Beam's --runner flag.
+//
+// Usage:
+//
+//	bowline-beam learn [flags] CORPUS... -o SPEC.json
+//	bowline-beam encode --spec SPEC.json [flags] CORPUS... -o PREFIX
+//
+// The analysis, cutoff and hashing flags are bowline learn's and mean the
+// same; every flag of the Beam SDK (--runner, --endpoint, --project, ...)
+// is accepted too. Run "bowline-beam learn --help" for the list.
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"sort"
+	"strings"
+
+	"github.com/apache/beam/sdks/v2/go/pkg/beam"
+	"github.com/apache/beam/sdks/v2/go/pkg/beam/io/filesystem"
+	"github.com/apache/beam/sdks/v2/go/pkg/beam/x/beamx"
+
+	bowlinebeam "github.com/bowline/bowline/beam"
+	"github.com/bowline/bowline/spec"
+)
+
+// Exit codes, as bowline's where they overlap.
+const (
+	exitOK      = 0
+	exitFailure = 1
+	exitUsage   = 2
+)
+
+func main() {
+	args := os.Args[1:]
+	if len(args) == 0 || strings.HasPrefix(args[0], "-") {
+		// A cluster runner starts this binary as a worker with Beam's
+		// flags only; beam.Init runs the worker and does not return.
+		flag.CommandLine.SetOutput(io.Discard)
+		if err := flag.CommandLine.Parse(args); err == nil {
+			beam.Init()
+		}
+		usage(os.Stderr)
+		os.Exit(exitUsage)
+	}
+	os.Exit(run(context.Background(), args, os.Stderr))
+}
+
+func usage(w io.Writer) {
+	fmt.Fprint(w, `usage:
+  bowline-beam learn [flags] CORPUS... -o SPEC.json
+  bowline-beam encode --spec SPEC.json [flags] CORPUS... -o PREFIX
+
+Runs bowline learn or encode as an Apache Beam pipeline (default runner:
+prism, in this process). "bowline-beam CMD --help" lists the flags.
+`)
+}
+
+// run runs one subcommand and returns the exit code.
+func run(ctx context.Context, args []string, stderr io.Writer) int {
+	var err error
+	switch args[0] {
+	case "learn":
+		err = runLearn(ctx, args[1:], stderr)
+	case "encode":
+		err = runEncode(ctx, args[1:], stderr)
+	case "help", "-h", "--help":
+		usage(stderr)
+		return exitOK
+	default:
+		err = usagef("unknown command %q", args[0])
+	}
+	if errors.Is(err, flag.ErrHelp) {
+		return exitOK
+	}
+	if err != nil {
+		fmt.Fprintf(stderr, "bowline-beam: %v\n", err)
+		var u *usageError
+		if errors.As(err, &u) {
+			return exitUsage
+		}
+		return exitFailure
+	}
+	return exitOK
+}
+
+func runLearn(ctx context.Context, args []string, stderr io.Writer) error {
+	c := newCommand("learn", "CORPUS... -o SPEC.json [flags]", "Learns a spec from the corpus files (read as one corpus, in the order given) on a Beam runner.")
+	var in inputFlags
+	var an analysisFlags
+	var out string
+	in.register(c.fs)
+	an.register(c.fs)
+	c.fs.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	if err := c.parse(args, stderr); err != nil {
+		return err
+	}
+	if len(c.pos) == 0 {
+		return usagef("bowline-beam learn needs at least one corpus file")
+	}
+	if out == "" || out == "-" {
+		return usagef("bowline-beam learn needs -o SPEC.json, the spec file to write")
+	}
+	copts, err := in.options(c.pos, nil, c.set)
+	if err != nil {
+		return err
+	}
+	st, err := an.settings(specInput(copts), c.set)
+	if err != nil {
+		return err
+	}
+	beam.Init()
+	p, s := beam.NewPipelineWithRoot()
+	if _, err := bowlinebeam.Learn(s, c.pos, copts, st, out); err != nil {
+		return usagef("%v", err)
+	}
+	if err := beamx.Run(ctx, p); err != nil {
+		return err
+	}
+	data, err := readAll(ctx, out)
+	if err != nil {
+		return err
+	}
+	sp, err := spec.Read(strings.NewReader(string(data)), out)
+	if err != nil {
+		return err
+	}
+	size := ""
+	if v := sp.Content.Vocabulary; v != nil {
+		size = fmt.Sprintf(", %d of %d keys kept", len(v.Keys), v.Seen.Keys)
+	}
+	fmt.Fprintf(stderr, "%d documents%s\nspec %s written to %s\n", sp.Content.Docs, size, sp.Fingerprint, out)
+	return nil
+}
+
+func runEncode(ctx context.Context, args []string, stderr io.Writer) error {
+	c := newCommand("encode", "--spec SPEC CORPUS... -o PREFIX [flags]", "Applies a spec to the corpus files on a Beam runner; rows go to shards PREFIX-FFFFF-BBBBBBBB (file and line-block numbers), whose concatenation in name order is the rows in record order.")
+	var in inputFlags
+	var specPath, out, fallback string
+	var o bowlinebeam.EncodeOptions
+	in.register(c.fs)
+	c.fs.StringVar(&specPath, "spec", "", "spec file written by bowline learn or bowline-beam learn")
+	c.fs.StringVar(&out, "o", "", "prefix of the row shards to write")
+	c.fs.IntVar(&o.Base, "index-base", 1, "index of the first column: 1 or 0")
+	c.fs.BoolVar(&o.WithIDs, "with-ids", false, "append \"# id\" to every row")
+	c.fs.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
+	c.fs.Int64Var(&o.ShardLines, "shard-lines", bowlinebeam.DefaultShardLines, "input lines of one file per row shard")
+	if err := c.parse(args, stderr); err != nil {
+		return err
+	}
+	if specPath == "" {
+		return usagef("bowline-beam encode needs --spec SPEC, written by bowline learn")
+	}
+	if len(c.pos) == 0 {
+		return usagef("bowline-beam encode needs at least one corpus file")
+	}
+	if out == "" || out == "-" {
+		return usagef("bowline-beam encode needs -o PREFIX, the prefix of the row shards")
+	}
+	if o.Base != 0 && o.Base != 1 {
+		return usagef("--index-base: %d is not 1 or 0", o.Base)
+	}
+	if o.ShardLines < 1 {
+		return usagef("--shard-lines: %d is not a positive number", o.ShardLines)
+	}
+	var err error
+	if o.LabelFallback, err = parseFloatFlag("label-fallback", fallback); err != nil {
+		return err
+	}
+	o.Out = out
+	data, err := readAll(ctx, specPath)
+	if err != nil {
+		return err
+	}
+	sp, err := spec.Read(strings.NewReader(string(data)), specPath)
+	if err != nil {
+		return err
+	}
+	copts, err := in.options(c.pos, &sp.Content.Input, c.set)
+	if err != nil {
+		return err
+	}
+	if n := len(specInput(copts).Text); n != len(sp.Content.Input.Text) {
+		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(sp.Content.Input.Text), strings.Join(sp.Content.Input.Text, ", "), n)
+	}
+	beam.Init()
+	p, s := beam.NewPipelineWithRoot()
+	if _, err := bowlinebeam.Encode(s, c.pos, copts, data, o); err != nil {
+		return usagef("%v", err)
+	}
+	if err := beamx.Run(ctx, p); err != nil {
+		return err
+	}
+	fmt.Fprintf(stderr, "rows of %d file(s) written to %s-* with spec %s\n", len(c.pos), out, sp.Fingerprint)
+	return nil
+}
+
+// readAll reads a file through the Beam file systems (local paths, and
+// gs:// and others the SDK registers).
+func readAll(ctx context.Context, path string) ([]byte, error) {
+	fs, err := filesystem.New(ctx, path)
+	if err != nil {
+		return nil, err
+	}
+	defer fs.Close()
+	return filesystem.Read(ctx, fs, path)
+}
+
+// command is one subcommand's flags: bowline's, then the Beam SDK's
+// (registered on flag.CommandLine by the SDK's packages), sharing their
+// values.
+type command struct {
+	name, args, about string
+	fs                *flag.FlagSet
+	pos               []string
+	set               map[string]bool
+	ours              map[string]bool
+}
+
+func newCommand(name, args, about string) *command {
+	c := &command{name: name, args: args, about: about, fs: flag.NewFlagSet(name, flag.ContinueOnError), set: map[string]bool{}}
+	c.fs.SetOutput(io.Discard)
+	return c
+}
+
+// parse parses flags and positional arguments in any order; "--" ends
+// flags.
+func (c *command) parse(args []string, stderr io.Writer) error {
+	c.ours = map[string]bool{}
+	c.fs.VisitAll(func(f *flag.Flag) { c.ours[f.Name] = true })
+	flag.CommandLine.VisitAll(func(f *flag.Flag) {
+		if c.fs.Lookup(f.Name) == nil {
+			c.fs.Var(f.Value, f.Name, f.Usage)
+		}
+	})
+	for {
+		if err := c.fs.Parse(args); err != nil {
+			if errors.Is(err, flag.ErrHelp) {
+				c.usage(stderr)
+				return flag.ErrHelp
+			}
+			return usagef("bowline-beam %s: %v (see bowline-beam %s --help)", c.name, err, c.name)
+		}
+		rest := c.fs.Args()
+		if len(rest) == 0 {
+			break
+		}
+		if len(args) > 0 && len(rest) < len(args) && args[len(args)-len(rest)-1] == "--" {
+			c.pos = append(c.pos, rest...)
+			break
+		}
+		c.pos = append(c.pos, rest[0])
+		args = rest[1:]
+	}
+	c.fs.Visit(func(f *flag.Flag) { c.set[f.Name] = true })
+	return nil
+}
+
+func (c *command) usage(w io.Writer) {
+	fmt.Fprintf(w, "usage: bowline-beam %s %s\n\n%s\n\nbowline flags:\n", c.name, c.args, c.about)
+	var names []string
+	c.fs.VisitAll(func(f *flag.Flag) {
+		if c.ours[f.Name] {
+			names = append(names, f.Name)
+		}
+	})
+	sort.Strings(names)
+	for _, n := range names {
+		f := c.fs.Lookup(n)
+		dash := "--"
+		if len(n) == 1 {
+			dash = "-"
+		}
+		def := f.DefValue
+		if def == "" {
+			def = "none"
+		}
+		fmt.Fprintf(w, "  %s%-16s %s [%s]\n", dash, n, f.Usage, def)
+	}
+	fmt.Fprintf(w, "\nBeam flags (the SDK's; the common ones):\n")
+	for _, n := range []string{"runner", "endpoint", "environment_type", "environment_config", "job_name", "project", "region", "staging_location", "temp_location", "worker_binary"} {
+		if f := c.fs.Lookup(n); f != nil {
+			fmt.Fprintf(w, "  --%-16s %s\n", n, firstLine(f.Usage))
+		}
+	}
+}
+
+func firstLine(s string) string {
+	s, _, _ = strings.Cut(s, "\n")
+	return s
+}
