@@ -43,6 +43,11 @@ func TestTableFieldsCommand(t *testing.T) {
 			args = append(args, "--feature-map", p("fm.tsv"))
 		}
 		mustRun(t, append(args, mode...)...)
+		var insp, ierr bytes.Buffer
+		if code := run([]string{"inspect", p("spec.json")}, &insp, &ierr); code != 0 ||
+			!strings.Contains(insp.String(), "table fields zone: category") || !strings.Contains(insp.String(), "missing also: unknown") {
+			t.Errorf("%v: inspect shows no table fields:\n%s%s", mode, insp.String(), ierr.String())
+		}
 		var rows [][]byte
 		for _, w := range []string{"1", "2", "2"} {
 			mustRun(t, "encode", "--spec", p("spec.json"), p("test.tsv"), "-o", p("test.svm"), "--workers", w, "--progress", "never", "--report", p("encode.json"))

@@ -73,6 +73,8 @@ type settingsView struct {
 	Weights weightsView   `json:"weights"`
 	Labels  labelsView    `json:"labels"`
 	Hashing *spec.Hashing `json:"hashing,omitempty"`
+	// Fields are the table fields with their frozen numbers.
+	Fields []spec.TableField `json:"fields,omitempty"`
 }
 
 type stopView struct {
@@ -159,7 +161,7 @@ func inspectSpec(s *spec.Spec, top int) *inspectView {
 	iv.Settings = settingsView{Input: ct.Input, Tokens: ct.Tokens,
 		Stop: stopView{Sources: ct.Stop.Sources, Words: len(ct.Stop.Words), KeepNegations: ct.Stop.KeepNegations},
 		Stem: ct.Stem, NGrams: ct.NGrams, Weights: weightsView{ct.Weights.TF, ct.Weights.IDF, ct.Weights.Norm},
-		Labels: labelsView{Kind: ct.Labels.Kind, Map: ct.Labels.Map}, Hashing: ct.Hashing}
+		Labels: labelsView{Kind: ct.Labels.Kind, Map: ct.Labels.Map}, Hashing: ct.Hashing, Fields: ct.Fields}
 	if iv.Settings.Stop.Sources == nil {
 		iv.Settings.Stop.Sources = []string{}
 	}
@@ -321,6 +323,13 @@ func (iv *inspectView) writeText(w io.Writer) {
 	} else {
 		fmt.Fprintf(w, "labels       %s\n", st.Labels.Kind)
 	}
+	for i, f := range st.Fields {
+		label := "             "
+		if i == 0 {
+			label = "table fields "
+		}
+		fmt.Fprintf(w, "%s%s\n", label, describeTableField(&f))
+	}
 	if h := st.Hashing; h != nil {
 		fmt.Fprintf(w, "hashing      width %d, seed %d, signed %v\n", h.Width, h.Seed, h.Signed)
 		return
@@ -407,4 +416,42 @@ func firstN(s []string, n int) []string {
 		return s[:n]
 	}
 	return s
+}
+
+// describeTableField says in one line what a table field's columns hold.
+func describeTableField(f *spec.TableField) string {
+	switch {
+	case f.Category != nil:
+		g := f.Category
+		if len(g.Levels) == 0 && g.MinDocs == 0 {
+			return fmt.Sprintf("%s: category, hashed as %s=LEVEL (no level stored)", f.Name, f.Name)
+		}
+		shown := g.Levels
+		if len(shown) > 8 {
+			shown = append(shown[:8:8], "…")
+		}
+		return fmt.Sprintf("%s: category, %d levels (%s) + other (%d folded below min-docs %d), missing, unseen",
+			f.Name, len(g.Levels), strings.Join(shown, ", "), len(g.OtherHashes), g.MinDocs)
+	case f.Number != nil:
+		n := f.Number
+		var tr []string
+		if n.Log {
+			tr = append(tr, "log")
+		}
+		if n.Standard {
+			tr = append(tr, "standard")
+		}
+		if len(tr) == 0 {
+			tr = []string{"as read"}
+		}
+		d := fmt.Sprintf("%s: number, %s; mean %.6g, sd %.6g (after log, population), range %g..%g, %d of %d training values missing",
+			f.Name, strings.Join(tr, ","), n.Mean, n.SD, n.Min, n.Max, n.MissingDocs, n.Docs+n.MissingDocs)
+		if len(n.Sentinels) > 0 {
+			d += "; missing also: " + strings.Join(n.Sentinels, " ")
+		}
+		return d
+	case f.Time != nil:
+		return fmt.Sprintf("%s: time, layout %q in %s; hour, day of week, day of year (sin, cos) + missing", f.Name, f.Time.Layout, f.Time.Zone)
+	}
+	return f.Name + ": " + f.Kind
 }
