@@ -2,6 +2,8 @@ package corpus
 
 import (
 	"errors"
+	"fmt"
+	"strings"
 	"testing"
 )
 
@@ -77,4 +79,21 @@ func TestFieldsWrongTypeIsParseError(t *testing.T) {
 	if !errors.Is(errs[0], ErrWrongType) || errs[0].Field != "n" || errs[0].Line != 1 {
 		t.Errorf("error %v", errs[0])
 	}
+}
+
+// Fields read beside the text: a JSON number keeps its literal, and an
+// absent key or null gives nil (a missing value), not an error.
+func ExampleOptions_fields() {
+	in := `{"text":"flat tyre","zone":"Harbour","age":34.50}` + "\n" + `{"text":"dock full","zone":null}` + "\n"
+	r, err := NewReader(strings.NewReader(in), "tickets.jsonl", Options{Format: JSONL, Text: []string{"text"}, Fields: []string{"zone", "age"}})
+	if err != nil {
+		panic(err)
+	}
+	for r.Scan() {
+		rec := r.Record()
+		fmt.Printf("%s: zone %q (nil %v), age %q (nil %v)\n", rec.Text[0], rec.Fields[0], rec.Fields[0] == nil, rec.Fields[1], rec.Fields[1] == nil)
+	}
+	// Output:
+	// flat tyre: zone "Harbour" (nil false), age "34.50" (nil false)
+	// dock full: zone "" (nil true), age "" (nil true)
 }
