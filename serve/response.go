@@ -1,6 +1,7 @@
 package serve
 
 import (
+	"math"
 	"strconv"
 	"unicode/utf8"
 )
@@ -35,11 +36,22 @@ func appendResponse(dst []byte, fingerprint string, rows []rowOut, base int) []b
 			dst = strconv.AppendInt(dst, int64(c+base), 10)
 		}
 		dst = append(dst, `],"values":[`...)
+		// Weights repeat within a row (terms of equal count and document
+		// frequency): the bytes of the value before are copied, not
+		// formatted again.
+		var prev uint64
+		pstart, pend := 0, 0
 		for j, v := range r.values {
 			if j > 0 {
 				dst = append(dst, ',')
 			}
-			dst = appendValue(dst, v)
+			if bits := math.Float64bits(v); j > 0 && bits == prev {
+				dst = append(dst, dst[pstart:pend]...)
+			} else {
+				prev, pstart = bits, len(dst)
+				dst = appendValue(dst, v)
+				pend = len(dst)
+			}
 		}
 		dst = append(dst, `],"unseen":`...)
 		dst = strconv.AppendInt(dst, int64(r.unseen), 10)
