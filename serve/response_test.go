@@ -141,7 +141,7 @@ func TestByteParityDemo(t *testing.T) {
 		{"vocabulary-counts-unseen-hash", func() *spec.Settings {
 			st := settings(t, demoInput)
 			st.Unseen = vocab.Unseen{Mode: vocab.UnseenHash, Buckets: 16} // --unseen hash:16
-			st.IDF, st.Norm = 0, 0                                         // whole counts: the integer path
+			st.IDF, st.Norm = 0, 0                                        // whole counts: the integer path
 			st.NGrams.Chars.Min, st.NGrams.Chars.Max = 3, 4
 			return st
 		}()},
