@@ -18,6 +18,7 @@ import (
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/weight"
 )
 
 // byteParity learns a spec on train, writes the held-out rows with
@@ -141,7 +142,7 @@ func TestByteParityDemo(t *testing.T) {
 		{"vocabulary-counts-unseen-hash", func() *spec.Settings {
 			st := settings(t, demoInput)
 			st.Unseen = vocab.Unseen{Mode: vocab.UnseenHash, Buckets: 16} // --unseen hash:16
-			st.IDF, st.Norm = 0, 0                                        // whole counts: the integer path
+			st.IDF, st.Norm = weight.IDFNone, weight.NormNone             // whole counts: the integer path
 			st.NGrams.Chars.Min, st.NGrams.Chars.Max = 3, 4
 			return st
 		}()},
