@@ -5,17 +5,25 @@
 // Usage:
 //
 //	bowline-load --url http://127.0.0.1:PORT [--clients 64] [--duration 30s]
-//	             [--docs-per-request 8] [--pid PID] [--spec SPEC] [--check]
+//	             [--docs-per-request 100] [--pid PID] [--spec SPEC] [--check]
 //
 // It only talks to loopback addresses, and every run is bounded: each level
-// of --clients (a comma list, such as 1,8,64) runs for --duration or until
-// --requests requests, whichever comes first, and then stops. The documents
-// are the invented Pellwick Bike Share corpus. With --pid it samples the
-// server's resident memory (VmRSS in /proc/PID/status) every --rss-every;
-// with --spec it also measures in-process encoding of the same documents
-// with the bowline library, for comparison. With --check it exits with
-// status 1 when a request failed or the server's RSS at the end of a level
-// is more than 10% away from its RSS after the level's first 5 seconds.
+// of --clients (a comma list, such as 1,8,64) sends requests for --duration
+// or until --requests requests, whichever comes first, and then stops. The
+// documents are the invented Pellwick Bike Share corpus. Request bodies
+// are built once, before the first level, and each client sends them over
+// one kept-alive connection, so the clients cost little next to the server.
+//
+// With --pid it samples the server's resident memory (VmRSS in
+// /proc/PID/status) every --rss-every. With --spec (the server's spec
+// file) it also encodes the same requests in this process with the
+// bowline library, the way the server's handler does (the same documents,
+// the same split of a request across cores), and puts the two side by
+// side: each level alternates --slice of in-process encoding with --slice
+// of HTTP requests, so both see the same machine load. With --check it
+// exits with status 1 when a request failed or the server's RSS at the end
+// of a level is more than 10% away from its RSS after the level's first 5
+// seconds.
 package main
 
 import (
@@ -31,6 +39,8 @@ import (
 	"net/http"
 	"net/url"
 	"os"
+	"runtime"
+	"runtime/pprof"
 	"slices"
 	"strconv"
 	"strings"
@@ -50,6 +60,7 @@ const (
 
 type config struct {
 	url         string
+	host        string // host:port of url
 	clients     []int
 	duration    time.Duration
 	docsPer     int
@@ -57,9 +68,11 @@ type config struct {
 	pid         int
 	rssEvery    time.Duration
 	specPath    string
-	inProcess   time.Duration
+	slice       time.Duration
 	corpusDocs  int
 	timeout     time.Duration
+	client      string
+	cpuProfile  string
 	check       bool
 	rssSettle   time.Duration
 	rssTolerate float64
@@ -87,15 +100,17 @@ func run(args []string, out io.Writer) error {
 	var clients string
 	fs.StringVar(&c.url, "url", "", "base URL of bowline serve on this machine (http://127.0.0.1:PORT)")
 	fs.StringVar(&clients, "clients", "64", "concurrent clients; a comma list runs one level each (1,8,64)")
-	fs.DurationVar(&c.duration, "duration", 30*time.Second, "length of each level (at most 10m)")
-	fs.IntVar(&c.docsPer, "docs-per-request", 8, "documents in each request")
+	fs.DurationVar(&c.duration, "duration", 30*time.Second, "HTTP time of each level (at most 10m)")
+	fs.IntVar(&c.docsPer, "docs-per-request", 100, "documents in each request")
 	fs.Int64Var(&c.requests, "requests", 5_000_000, "most requests in each level")
 	fs.IntVar(&c.pid, "pid", 0, "process id of the server, to sample its resident memory")
 	fs.DurationVar(&c.rssEvery, "rss-every", time.Second, "interval between memory samples")
-	fs.StringVar(&c.specPath, "spec", "", "the server's spec file: also time in-process encoding of the same documents")
-	fs.DurationVar(&c.inProcess, "in-process", 5*time.Second, "length of each in-process level (with --spec)")
+	fs.StringVar(&c.specPath, "spec", "", "the server's spec file: also encode the same requests in this process, alternating with HTTP")
+	fs.StringVar(&c.cpuProfile, "cpuprofile", "", "write a CPU profile of bowline-load itself to this file (for pprof)")
+	fs.DurationVar(&c.slice, "slice", time.Second, "with --spec: length of each alternating in-process and HTTP stretch")
 	fs.IntVar(&c.corpusDocs, "corpus-docs", 2000, "invented documents to draw requests from")
 	fs.DurationVar(&c.timeout, "timeout", 10*time.Second, "timeout of one request")
+	fs.StringVar(&c.client, "client", "raw", "HTTP client: raw (pre-built HTTP/1.1 requests on kept-alive connections) or std (net/http)")
 	fs.BoolVar(&c.check, "check", false, "exit 1 when a request failed or RSS moved more than 10% after the first 5s")
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -127,31 +142,31 @@ func run(args []string, out io.Writer) error {
 		return usagef("--corpus-docs: %d is too few", c.corpusDocs)
 	case c.rssEvery <= 0:
 		return usagef("--rss-every: %v is not positive", c.rssEvery)
+	case c.slice <= 0:
+		return usagef("--slice: %v is not positive", c.slice)
+	case c.client != "raw" && c.client != "std":
+		return usagef("--client: %q is not raw or std", c.client)
 	}
 	base, err := checkLoopback(c.url)
 	if err != nil {
 		return err
 	}
 	c.url = base
+	u, _ := url.Parse(base)
+	c.host = u.Host
+	if u.Port() == "" {
+		c.host = net.JoinHostPort(u.Hostname(), "80")
+	}
 
 	texts, err := demoTexts(c.corpusDocs)
 	if err != nil {
 		return err
 	}
-	bodies := makeBodies(texts, c.docsPer)
 	fingerprint, err := serverSpec(c.url)
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(out, "bowline-load: %s, spec %s, %d documents per request, %v per level (at most %d requests)\n",
-		c.url, short(fingerprint), c.docsPer, c.duration, c.requests)
-	if c.pid > 0 {
-		if _, err := rssKiB(c.pid); err != nil {
-			return fmt.Errorf("--pid %d: %v", c.pid, err)
-		}
-	}
-
-	var inproc map[int]float64
+	w := newWorkload(texts, c.docsPer, u.Path, u.Host, fingerprint)
 	var lib *bowline.Encoder
 	if c.specPath != "" {
 		lib, err = bowline.Load(c.specPath)
@@ -161,20 +176,36 @@ func run(args []string, out io.Writer) error {
 		if lib.Fingerprint() != fingerprint {
 			return fmt.Errorf("--spec %s has fingerprint %s but the server encodes with %s", c.specPath, short(lib.Fingerprint()), short(fingerprint))
 		}
-		inproc = map[int]float64{}
+	}
+	fmt.Fprintf(out, "bowline-load: %s, spec %s, %d documents per request (%d distinct requests, %.1f KiB each on average), %v of HTTP per level (at most %d requests), %s client, %d CPUs\n",
+		c.url, short(fingerprint), c.docsPer, len(w.bodies), w.meanBody()/1024, c.duration, c.requests, c.client, runtime.NumCPU())
+	if lib != nil {
+		fmt.Fprintf(out, "in-process: the same requests encoded with the library in this process, alternating %v stretches with HTTP\n", c.slice)
+	}
+	if c.pid > 0 {
+		if _, err := rssKiB(c.pid); err != nil {
+			return fmt.Errorf("--pid %d: %v", c.pid, err)
+		}
 	}
 
+	if c.cpuProfile != "" {
+		f, err := os.Create(c.cpuProfile)
+		if err != nil {
+			return err
+		}
+		defer f.Close()
+		if err := pprof.StartCPUProfile(f); err != nil {
+			return err
+		}
+		defer pprof.StopCPUProfile()
+	}
 	var results []levelResult
 	for _, n := range c.clients {
-		if lib != nil {
-			// Right before the level, so both see the same machine load.
-			inproc[n] = inProcessRate(lib, texts, n, c.inProcess)
-		}
-		results = append(results, runLevel(&c, n, bodies))
+		results = append(results, runLevel(&c, n, w, lib))
 	}
 
 	fmt.Fprintf(out, "\n%7s %9s %10s %11s %8s %8s %8s %7s", "clients", "requests", "req/s", "docs/s", "p50 ms", "p99 ms", "max ms", "errors")
-	if inproc != nil {
+	if lib != nil {
 		fmt.Fprintf(out, " %13s %9s", "in-proc doc/s", "HTTP/lib")
 	}
 	fmt.Fprintln(out)
@@ -182,9 +213,8 @@ func run(args []string, out io.Writer) error {
 	for _, r := range results {
 		fmt.Fprintf(out, "%7d %9d %10.1f %11.1f %8.2f %8.2f %8.2f %7d", r.clients, r.requests, r.reqRate(), r.reqRate()*float64(c.docsPer),
 			ms(r.quantile(0.50)), ms(r.quantile(0.99)), ms(r.quantile(1)), r.errors)
-		if inproc != nil {
-			lib := inproc[r.clients]
-			fmt.Fprintf(out, " %13.1f %9.2f", lib, r.reqRate()*float64(c.docsPer)/lib)
+		if lib != nil {
+			fmt.Fprintf(out, " %13.1f %9.2f", r.libRate(), r.reqRate()*float64(c.docsPer)/r.libRate())
 		}
 		fmt.Fprintln(out)
 		if r.errors > 0 {
@@ -272,34 +302,83 @@ func demoTexts(n int) ([]string, error) {
 		return nil, err
 	}
 	sc := bufio.NewScanner(&b)
-	sc.Scan() // header
+	sc.Scan()
+	col := slices.Index(strings.Split(sc.Text(), "\t"), "text")
+	if col < 0 {
+		return nil, fmt.Errorf("the demo corpus has no text column: %q", sc.Text())
+	}
 	var texts []string
 	for sc.Scan() {
 		f := strings.Split(sc.Text(), "\t")
-		texts = append(texts, f[len(f)-1])
+		if col >= len(f) {
+			return nil, fmt.Errorf("demo record %q has no column %d", sc.Text(), col+1)
+		}
+		texts = append(texts, f[col])
 	}
 	return texts, sc.Err()
 }
 
-// makeBodies builds request bodies ahead of time, so clients spend their
-// time waiting for the server, not encoding JSON.
-func makeBodies(texts []string, per int) [][]byte {
+// A workload is the requests of a run, built once before the first level.
+type workload struct {
+	docs   [][]bowline.Document // the documents of each request
+	bodies [][]byte             // their JSON bodies
+	raw    [][]byte             // whole HTTP/1.1 requests, head and body
+	path   string               // of the encode endpoint
+	spec   string               // the fingerprint every answer must name
+}
+
+// newWorkload cuts texts into requests of per documents each (at most 256
+// distinct requests) and encodes their bodies.
+func newWorkload(texts []string, per int, basePath, host, fingerprint string) *workload {
 	type doc struct {
 		ID   string `json:"id"`
 		Text string `json:"text"`
 	}
+	w := &workload{path: basePath + "/v1/encode", spec: fingerprint}
 	nb := max(1, min(256, len(texts)/per))
-	bodies := make([][]byte, nb)
 	k := 0
-	for i := range bodies {
-		docs := make([]doc, per)
-		for j := range docs {
-			docs[j] = doc{ID: "pw-" + strconv.Itoa(k), Text: texts[k%len(texts)]}
+	for range nb {
+		wire := make([]doc, per)
+		docs := make([]bowline.Document, per)
+		for j := range wire {
+			id := "pw-" + strconv.Itoa(k)
+			wire[j] = doc{ID: id, Text: texts[k%len(texts)]}
+			docs[j] = bowline.Document{ID: id, Text: texts[k%len(texts)]}
 			k++
 		}
-		bodies[i], _ = json.Marshal(map[string]any{"documents": docs})
+		body, _ := json.Marshal(map[string]any{"documents": wire})
+		head := fmt.Sprintf("POST %s HTTP/1.1\r\nHost: %s\r\nContent-Type: application/json\r\nContent-Length: %d\r\n\r\n", w.path, host, len(body))
+		w.docs = append(w.docs, docs)
+		w.bodies = append(w.bodies, body)
+		w.raw = append(w.raw, append([]byte(head), body...))
 	}
-	return bodies
+	return w
+}
+
+func (w *workload) meanBody() float64 {
+	n := 0
+	for _, b := range w.bodies {
+		n += len(b)
+	}
+	return float64(n) / float64(len(w.bodies))
+}
+
+// check checks the answer to request i: status 200, the server's spec, and
+// one row per document. Rows are counted by their brackets, which a
+// single-byte count finds fast: the answer has one '[' for "rows" and two
+// in each row ("indices" and "values"), and none elsewhere, since ids are
+// "pw-N" and the rest is numbers and the hexadecimal fingerprint.
+func (w *workload) check(i, status int, body []byte) error {
+	if status != http.StatusOK {
+		return fmt.Errorf("status %d: %s", status, bytes.TrimSpace(body))
+	}
+	if !bytes.HasPrefix(body, []byte(`{"spec":"`)) || !bytes.HasPrefix(body[len(`{"spec":"`):], []byte(w.spec)) {
+		return fmt.Errorf("answer does not name the spec %s: %.60q", short(w.spec), body)
+	}
+	if n, docs := (bytes.Count(body, []byte("["))-1)/2, len(w.docs[i]); n != docs {
+		return fmt.Errorf("%d rows for %d documents", n, docs)
+	}
+	return nil
 }
 
 type rssSample struct {
@@ -309,15 +388,24 @@ type rssSample struct {
 
 type levelResult struct {
 	clients      int
-	requests     int64
+	requests     int64 // sent
 	errors       int64
-	elapsed      time.Duration
+	windowed     int64         // answered within the HTTP stretches
+	elapsed      time.Duration // of the HTTP stretches
 	latencies    []time.Duration
 	errorSamples []string
 	rss          []rssSample
+	libDocs      int64         // documents encoded in this process within its stretches
+	libElapsed   time.Duration // of the in-process stretches
 }
 
-func (r *levelResult) reqRate() float64 { return float64(r.requests) / r.elapsed.Seconds() }
+// reqRate is the rate of answers within the HTTP stretches: each stretch
+// counts the requests answered before its end and lasts exactly --slice
+// (or --duration), so the wait for the last answers of a stretch, when
+// fewer clients keep the server busy, is not counted against it.
+func (r *levelResult) reqRate() float64 { return float64(r.windowed) / r.elapsed.Seconds() }
+
+func (r *levelResult) libRate() float64 { return float64(r.libDocs) / r.libElapsed.Seconds() }
 
 func (r *levelResult) quantile(q float64) time.Duration {
 	if len(r.latencies) == 0 {
@@ -329,23 +417,39 @@ func (r *levelResult) quantile(q float64) time.Duration {
 
 func ms(d time.Duration) float64 { return float64(d.Microseconds()) / 1e3 }
 
-func runLevel(c *config, clients int, bodies [][]byte) levelResult {
-	tr := &http.Transport{
-		MaxIdleConns:        clients,
-		MaxIdleConnsPerHost: clients,
-		MaxConnsPerHost:     clients,
-		DisableCompression:  true,
-		IdleConnTimeout:     30 * time.Second,
+// A sender sends request i of the workload and checks the answer.
+type sender interface {
+	send(i int) error
+	close()
+}
+
+// runLevel runs one level of n clients: --duration of HTTP requests, in
+// stretches of --slice alternating with in-process encoding when lib is
+// not nil.
+func runLevel(c *config, n int, w *workload, lib *bowline.Encoder) levelResult {
+	res := levelResult{clients: n}
+	var tr *http.Transport
+	if c.client == "std" {
+		tr = &http.Transport{
+			MaxIdleConns:        n,
+			MaxIdleConnsPerHost: n,
+			MaxConnsPerHost:     n,
+			DisableCompression:  true,
+			IdleConnTimeout:     30 * time.Second,
+		}
+		defer tr.CloseIdleConnections()
 	}
-	defer tr.CloseIdleConnections()
-	hc := &http.Client{Transport: tr, Timeout: c.timeout}
-	res := levelResult{clients: clients}
-	var budget atomic.Int64
-	budget.Store(c.requests)
-	var nerr atomic.Int64
-	var mu sync.Mutex
+	senders := make([]sender, n)
+	for g := range senders {
+		if tr != nil {
+			senders[g] = &stdClient{hc: &http.Client{Transport: tr, Timeout: c.timeout}, url: c.url + "/v1/encode", w: w}
+		} else {
+			senders[g] = &rawClient{addr: c.host, timeout: c.timeout, w: w}
+		}
+		defer senders[g].close()
+	}
+
 	start := time.Now()
-	deadline := start.Add(c.duration)
 	stopRSS := make(chan struct{})
 	rssDone := make(chan struct{})
 	go func() {
@@ -366,38 +470,67 @@ func runLevel(c *config, clients int, bodies [][]byte) levelResult {
 			}
 		}
 	}()
-	per := make([][]time.Duration, clients)
-	var wg sync.WaitGroup
-	for g := 0; g < clients; g++ {
-		wg.Add(1)
-		go func(g int) {
-			defer wg.Done()
-			lat := make([]time.Duration, 0, 1024)
-			buf := make([]byte, 64<<10)
-			for i := g; time.Now().Before(deadline) && budget.Add(-1) >= 0; i += clients {
-				body := bodies[i%len(bodies)]
-				t0 := time.Now()
-				err := send(hc, c.url+"/v1/encode", body, c.docsPer, buf)
-				lat = append(lat, time.Since(t0))
-				if err != nil {
-					nerr.Add(1)
-					mu.Lock()
-					if len(res.errorSamples) < 5 {
-						res.errorSamples = append(res.errorSamples, err.Error())
-					}
-					mu.Unlock()
-				}
-			}
-			per[g] = lat
-		}(g)
+
+	var budget atomic.Int64
+	budget.Store(c.requests)
+	var nerr, windowed atomic.Int64
+	var mu sync.Mutex
+	per := make([][]time.Duration, n)
+	next := make([]int, n)    // next request of each HTTP client
+	libNext := make([]int, n) // and of each in-process client
+	for g := range n {
+		next[g], libNext[g] = g, g
+		per[g] = make([]time.Duration, 0, 1024)
 	}
-	wg.Wait()
-	res.elapsed = time.Since(start)
+	stretch := c.duration
+	if lib != nil {
+		stretch = c.slice
+	}
+	for left := c.duration; left > 0 && budget.Load() > 0; left -= stretch {
+		d := min(stretch, left)
+		if lib != nil {
+			docs, el := inProcess(lib, w, libNext, d)
+			res.libDocs += docs
+			res.libElapsed += el
+		}
+		t0 := time.Now()
+		deadline := t0.Add(d)
+		var wg sync.WaitGroup
+		for g := range n {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				answered := int64(0)
+				defer func() { windowed.Add(answered) }()
+				for time.Now().Before(deadline) && budget.Add(-1) >= 0 {
+					i := next[g] % len(w.raw)
+					next[g] += n
+					t := time.Now()
+					err := senders[g].send(i)
+					end := time.Now()
+					per[g] = append(per[g], end.Sub(t))
+					if end.Before(deadline) {
+						answered++
+					}
+					if err != nil {
+						nerr.Add(1)
+						mu.Lock()
+						if len(res.errorSamples) < 5 {
+							res.errorSamples = append(res.errorSamples, err.Error())
+						}
+						mu.Unlock()
+					}
+				}
+			}()
+		}
+		wg.Wait()
+		res.elapsed += d
+	}
 	close(stopRSS)
 	<-rssDone
 	if c.pid > 0 {
 		if kib, err := rssKiB(c.pid); err == nil {
-			res.rss = append(res.rss, rssSample{res.elapsed, kib})
+			res.rss = append(res.rss, rssSample{time.Since(start), kib})
 		}
 	}
 	for _, l := range per {
@@ -405,30 +538,138 @@ func runLevel(c *config, clients int, bodies [][]byte) levelResult {
 	}
 	slices.Sort(res.latencies)
 	res.requests = int64(len(res.latencies))
+	res.windowed = windowed.Load()
 	res.errors = nerr.Load()
 	return res
 }
 
-// send posts one body and checks the answer: status 200, and one row per
-// document (counted by its "indices" key, cheaper than decoding).
-func send(hc *http.Client, u string, body []byte, docs int, buf []byte) error {
-	res, err := hc.Post(u, "application/json", bytes.NewReader(body))
+// rawClient sends the workload's pre-built requests over one kept-alive
+// HTTP/1.1 connection (RFC 9112) and reads the answers into a buffer it
+// keeps: no allocation per request. It understands what "bowline serve"
+// answers (a Content-Length body, perhaps "Connection: close"), and
+// treats anything else as an error.
+type rawClient struct {
+	addr    string
+	timeout time.Duration
+	w       *workload
+	conn    net.Conn
+	br      *bufio.Reader
+	body    []byte
+}
+
+func (c *rawClient) send(i int) error {
+	if c.conn == nil {
+		conn, err := net.DialTimeout("tcp", c.addr, c.timeout)
+		if err != nil {
+			return err
+		}
+		c.conn = conn
+		if c.br == nil {
+			c.br = bufio.NewReaderSize(conn, 32<<10)
+		} else {
+			c.br.Reset(conn)
+		}
+	}
+	c.conn.SetDeadline(time.Now().Add(c.timeout))
+	if _, err := c.conn.Write(c.w.raw[i]); err != nil {
+		c.close()
+		return err
+	}
+	status, closing, err := c.read()
+	if err != nil {
+		c.close()
+		return err
+	}
+	if closing {
+		c.close()
+	}
+	return c.w.check(i, status, c.body)
+}
+
+// read reads one answer: status line, header fields, body.
+func (c *rawClient) read() (status int, closing bool, err error) {
+	line, err := c.br.ReadSlice('\n')
+	if err != nil {
+		return 0, false, err
+	}
+	if len(line) < 12 || !bytes.HasPrefix(line, []byte("HTTP/1.")) || line[8] != ' ' {
+		return 0, false, fmt.Errorf("bad status line %q", line)
+	}
+	status, err = strconv.Atoi(string(line[9:12]))
+	if err != nil {
+		return 0, false, fmt.Errorf("bad status line %q", line)
+	}
+	length := -1
+	for {
+		line, err := c.br.ReadSlice('\n')
+		if err != nil {
+			return 0, false, err
+		}
+		line = bytes.TrimRight(line, "\r\n")
+		if len(line) == 0 {
+			break
+		}
+		name, value, _ := bytes.Cut(line, []byte(":"))
+		value = bytes.TrimSpace(value)
+		switch {
+		case bytes.EqualFold(name, []byte("Content-Length")):
+			length, err = strconv.Atoi(string(value))
+			if err != nil || length < 0 {
+				return 0, false, fmt.Errorf("bad Content-Length %q", value)
+			}
+		case bytes.EqualFold(name, []byte("Connection")):
+			closing = bytes.EqualFold(value, []byte("close"))
+		case bytes.EqualFold(name, []byte("Transfer-Encoding")):
+			return 0, false, fmt.Errorf("unexpected Transfer-Encoding %q", value)
+		}
+	}
+	if length < 0 {
+		return 0, false, errors.New("answer without Content-Length")
+	}
+	if cap(c.body) < length {
+		c.body = make([]byte, length)
+	}
+	c.body = c.body[:length]
+	_, err = io.ReadFull(c.br, c.body)
+	return status, closing, err
+}
+
+func (c *rawClient) close() {
+	if c.conn != nil {
+		c.conn.Close()
+		c.conn = nil
+	}
+}
+
+// stdClient sends requests with net/http's client, for comparison.
+type stdClient struct {
+	hc   *http.Client
+	url  string
+	w    *workload
+	body bytes.Buffer
+	rd   bytes.Reader
+}
+
+func (c *stdClient) send(i int) error {
+	c.rd.Reset(c.w.bodies[i])
+	req, err := http.NewRequest("POST", c.url, &c.rd)
+	if err != nil {
+		return err
+	}
+	req.Header.Set("Content-Type", "application/json")
+	res, err := c.hc.Do(req)
 	if err != nil {
 		return err
 	}
 	defer res.Body.Close()
-	var got bytes.Buffer
-	if _, err := io.CopyBuffer(&got, res.Body, buf); err != nil {
+	c.body.Reset()
+	if _, err := c.body.ReadFrom(res.Body); err != nil {
 		return err
 	}
-	if res.StatusCode != http.StatusOK {
-		return fmt.Errorf("status %d: %s", res.StatusCode, bytes.TrimSpace(got.Bytes()))
-	}
-	if n := bytes.Count(got.Bytes(), []byte(`"indices":`)); n != docs {
-		return fmt.Errorf("%d rows for %d documents", n, docs)
-	}
-	return nil
+	return c.w.check(i, res.StatusCode, c.body.Bytes())
 }
+
+func (c *stdClient) close() {}
 
 // reportRSS prints the memory samples of a level and says whether the end
 // is within the tolerance of the first sample after rssSettle.
@@ -487,27 +728,62 @@ func rssKiB(pid int) (int64, error) {
 	return 0, errors.New("no VmRSS line")
 }
 
-// inProcessRate encodes the documents with the library from n goroutines
-// for d and returns documents per second.
-func inProcessRate(enc *bowline.Encoder, texts []string, n int, d time.Duration) float64 {
+// parallelMin and the split below are those of the server's handler:
+// a request of at least parallelMin documents is cut into
+// min(GOMAXPROCS, documents/(parallelMin/2)) ranges encoded at once.
+const parallelMin = 32
+
+// inProcess encodes the workload's requests with the library from
+// len(next) goroutines for d, each request the way the handler does it
+// (every document's texts first, then the rows, split across cores), and
+// returns the documents of the requests finished within d, and d.
+func inProcess(enc *bowline.Encoder, w *workload, next []int, d time.Duration) (int64, time.Duration) {
 	var total atomic.Int64
-	start := time.Now()
-	deadline := start.Add(d)
+	deadline := time.Now().Add(d)
 	var wg sync.WaitGroup
-	for g := 0; g < n; g++ {
+	for g := range next {
 		wg.Add(1)
-		go func(g int) {
+		go func() {
 			defer wg.Done()
-			k := int64(0)
-			for i := g; k%64 != 0 || time.Now().Before(deadline); i += n {
-				enc.Encode(bowline.Document{Text: texts[i%len(texts)]})
-				k++
+			done := 0
+			for time.Now().Before(deadline) {
+				docs := w.docs[next[g]%len(w.docs)]
+				next[g] += len(next)
+				encodeRequest(enc, docs)
+				if time.Now().Before(deadline) {
+					done += len(docs)
+				}
 			}
-			total.Add(k)
-		}(g)
+			total.Add(int64(done))
+		}()
 	}
 	wg.Wait()
-	return float64(total.Load()) / time.Since(start).Seconds()
+	return total.Load(), d
+}
+
+func encodeRequest(enc *bowline.Encoder, docs []bowline.Document) []bowline.Row {
+	texts := make([][][]byte, len(docs))
+	for i, d := range docs {
+		texts[i], _ = enc.Texts(d)
+	}
+	rows := make([]bowline.Row, len(docs))
+	encodeRange := func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			rows[i], _ = enc.EncodeTexts(docs[i].ID, texts[i])
+		}
+	}
+	if n := len(docs); n >= parallelMin && runtime.GOMAXPROCS(0) > 1 {
+		parts := min(runtime.GOMAXPROCS(0), n/(parallelMin/2))
+		var wg sync.WaitGroup
+		for p := range parts {
+			wg.Add(1)
+			go func() { defer wg.Done(); encodeRange(p*n/parts, (p+1)*n/parts) }()
+		}
+		wg.Wait()
+	} else {
+		encodeRange(0, len(docs))
+	}
+	return rows
 }
 
 func short(fp string) string {
