@@ -9,7 +9,9 @@
 #   2. the table at 1, 8 and 64 clients with 100 documents per request,
 #      next to in-process encoding of the same requests with the library,
 #      the two alternating in 1 s stretches so both see the same machine
-#      load; the target is HTTP/lib >= 0.5.
+#      load; the target is HTTP/lib >= 0.5. The "per CPU s" column gives
+#      the same ratio per CPU second (server and client against the
+#      library), which other processes on the machine do not skew.
 # Finally it stops the server with SIGTERM (graceful shutdown).
 #
 # Environment: DURATION (step 1, default 30s), LEVEL (HTTP time of each

@@ -29,6 +29,7 @@ package main
 import (
 	"bufio"
 	"bytes"
+	"cmp"
 	"encoding/json"
 	"errors"
 	"flag"
@@ -46,6 +47,7 @@ import (
 	"strings"
 	"sync"
 	"sync/atomic"
+	"syscall"
 	"time"
 
 	"github.com/bowline/bowline"
@@ -207,6 +209,9 @@ func run(args []string, out io.Writer) error {
 	fmt.Fprintf(out, "\n%7s %9s %10s %11s %8s %8s %8s %7s", "clients", "requests", "req/s", "docs/s", "p50 ms", "p99 ms", "max ms", "errors")
 	if lib != nil {
 		fmt.Fprintf(out, " %13s %9s", "in-proc doc/s", "HTTP/lib")
+		if c.pid > 0 {
+			fmt.Fprintf(out, " %10s %9s %13s", "HTTP cores", "lib cores", "per CPU s")
+		}
 	}
 	fmt.Fprintln(out)
 	failed := false
@@ -215,11 +220,21 @@ func run(args []string, out io.Writer) error {
 			ms(r.quantile(0.50)), ms(r.quantile(0.99)), ms(r.quantile(1)), r.errors)
 		if lib != nil {
 			fmt.Fprintf(out, " %13.1f %9.2f", r.libRate(), r.reqRate()*float64(c.docsPer)/r.libRate())
+			if c.pid > 0 && r.serverCPUErr == nil {
+				h, l := r.perCPU(c.docsPer)
+				fmt.Fprintf(out, " %10.2f %9.2f %13.2f", (r.serverCPU+r.clientCPU).Seconds()/r.elapsed.Seconds(), r.libCPU.Seconds()/r.libElapsed.Seconds(), h/l)
+			}
 		}
 		fmt.Fprintln(out)
 		if r.errors > 0 {
 			failed = true
 		}
+	}
+	if lib != nil && c.pid > 0 {
+		fmt.Fprintf(out, "\nHTTP/lib: documents per second through HTTP over documents per second in process, each in its own stretches.\n"+
+			"cores: CPU seconds per second, server and client together for HTTP, this process for lib (%d CPUs here; less means\n"+
+			"other work on the machine took the rest). per CPU s: documents per CPU second through HTTP over the same in process,\n"+
+			"the ratio that load from other processes does not skew.\n", runtime.NumCPU())
 	}
 	for _, r := range results {
 		for i, e := range r.errorSamples {
@@ -397,6 +412,15 @@ type levelResult struct {
 	rss          []rssSample
 	libDocs      int64         // documents encoded in this process within its stretches
 	libElapsed   time.Duration // of the in-process stretches
+
+	// CPU time spent on whole requests, answered or encoded, by the
+	// server (with --pid) and this process, for the ratio per CPU second
+	// that background load on the machine does not skew.
+	libAll       int64 // documents encoded in process, within the stretches or just after
+	libCPU       time.Duration
+	clientCPU    time.Duration // this process, in the HTTP stretches
+	serverCPU    time.Duration // the server, in the HTTP stretches (with --pid)
+	serverCPUErr error
 }
 
 // reqRate is the rate of answers within the HTTP stretches: each stretch
@@ -406,6 +430,12 @@ type levelResult struct {
 func (r *levelResult) reqRate() float64 { return float64(r.windowed) / r.elapsed.Seconds() }
 
 func (r *levelResult) libRate() float64 { return float64(r.libDocs) / r.libElapsed.Seconds() }
+
+// perCPU returns the documents per CPU second through HTTP (server and
+// client together) and in process.
+func (r *levelResult) perCPU(docsPer int) (httpRate, libRate float64) {
+	return float64(r.requests*int64(docsPer)) / (r.serverCPU + r.clientCPU).Seconds(), float64(r.libAll) / r.libCPU.Seconds()
+}
 
 func (r *levelResult) quantile(q float64) time.Duration {
 	if len(r.latencies) == 0 {
@@ -489,10 +519,15 @@ func runLevel(c *config, n int, w *workload, lib *bowline.Encoder) levelResult {
 	for left := c.duration; left > 0 && budget.Load() > 0; left -= stretch {
 		d := min(stretch, left)
 		if lib != nil {
-			docs, el := inProcess(lib, w, libNext, d)
+			cpu0 := selfCPU()
+			docs, all, el := inProcess(lib, w, libNext, d)
+			res.libCPU += selfCPU() - cpu0
 			res.libDocs += docs
+			res.libAll += all
 			res.libElapsed += el
 		}
+		client0 := selfCPU()
+		server0, serr := procCPU(c.pid)
 		t0 := time.Now()
 		deadline := t0.Add(d)
 		var wg sync.WaitGroup
@@ -525,6 +560,12 @@ func runLevel(c *config, n int, w *workload, lib *bowline.Encoder) levelResult {
 		}
 		wg.Wait()
 		res.elapsed += d
+		res.clientCPU += selfCPU() - client0
+		server1, serr1 := procCPU(c.pid)
+		res.serverCPU += server1 - server0
+		if res.serverCPUErr == nil {
+			res.serverCPUErr = cmp.Or(serr, serr1)
+		}
 	}
 	close(stopRSS)
 	<-rssDone
@@ -736,16 +777,17 @@ const parallelMin = 32
 // inProcess encodes the workload's requests with the library from
 // len(next) goroutines for d, each request the way the handler does it
 // (every document's texts first, then the rows, split across cores), and
-// returns the documents of the requests finished within d, and d.
-func inProcess(enc *bowline.Encoder, w *workload, next []int, d time.Duration) (int64, time.Duration) {
-	var total atomic.Int64
+// returns the documents of the requests finished within d, the documents
+// of every request finished, and d.
+func inProcess(enc *bowline.Encoder, w *workload, next []int, d time.Duration) (windowed, all int64, _ time.Duration) {
+	var total, totalAll atomic.Int64
 	deadline := time.Now().Add(d)
 	var wg sync.WaitGroup
 	for g := range next {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			done := 0
+			done, doneAll := 0, 0
 			for time.Now().Before(deadline) {
 				docs := w.docs[next[g]%len(w.docs)]
 				next[g] += len(next)
@@ -753,12 +795,52 @@ func inProcess(enc *bowline.Encoder, w *workload, next []int, d time.Duration) (
 				if time.Now().Before(deadline) {
 					done += len(docs)
 				}
+				doneAll += len(docs)
 			}
 			total.Add(int64(done))
+			totalAll.Add(int64(doneAll))
 		}()
 	}
 	wg.Wait()
-	return total.Load(), d
+	return total.Load(), totalAll.Load(), d
+}
+
+// selfCPU is the CPU time, user and system, this process has used
+// (getrusage(2), RUSAGE_SELF).
+func selfCPU() time.Duration {
+	var ru syscall.Rusage
+	if syscall.Getrusage(syscall.RUSAGE_SELF, &ru) != nil {
+		return 0
+	}
+	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
+}
+
+// procCPU is the CPU time, user and system, process pid has used: fields
+// 14 and 15 (utime, stime) of /proc/PID/stat, in clock ticks of 1/100 s
+// (USER_HZ on Linux; proc(5)). It is 0 for pid 0.
+func procCPU(pid int) (time.Duration, error) {
+	if pid <= 0 {
+		return 0, nil
+	}
+	b, err := os.ReadFile("/proc/" + strconv.Itoa(pid) + "/stat")
+	if err != nil {
+		return 0, err
+	}
+	// The command name, field 2, is in parentheses and may hold spaces.
+	i := bytes.LastIndexByte(b, ')')
+	if i < 0 {
+		return 0, errors.New("no command name in /proc/PID/stat")
+	}
+	f := strings.Fields(string(b[i+1:])) // from field 3
+	if len(f) < 13 {
+		return 0, errors.New("short /proc/PID/stat")
+	}
+	ut, err1 := strconv.ParseInt(f[11], 10, 64)
+	st, err2 := strconv.ParseInt(f[12], 10, 64)
+	if err1 != nil || err2 != nil {
+		return 0, errors.New("bad utime or stime in /proc/PID/stat")
+	}
+	return time.Duration(ut+st) * (time.Second / 100), nil
 }
 
 func encodeRequest(enc *bowline.Encoder, docs []bowline.Document) []bowline.Row {

@@ -4,8 +4,10 @@ import (
 	"bufio"
 	"bytes"
 	"io"
+	"math"
 	"net/http"
 	"net/http/httptest"
+	"os"
 	"strings"
 	"testing"
 	"time"
@@ -161,5 +163,36 @@ func TestRawClientAfterRefusal(t *testing.T) {
 	}
 	if err := c.send(2); err != nil {
 		t.Fatalf("after a refusal: %v", err)
+	}
+}
+
+// The server's CPU time read from /proc/PID/stat (proc(5): utime and
+// stime, fields 14 and 15, in 1/100 s) agrees with getrusage(2) for this
+// process, to the clock tick.
+func TestProcCPU(t *testing.T) {
+	if _, err := os.Stat("/proc/self/stat"); err != nil {
+		t.Skip("no /proc on this system")
+	}
+	x := 0.0
+	for start := time.Now(); time.Since(start) < 80*time.Millisecond; {
+		for i := range 1000 {
+			x += math.Sqrt(float64(i))
+		}
+	}
+	before := selfCPU()
+	got, err := procCPU(os.Getpid())
+	after := selfCPU()
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Ticks truncate: the reading lies within two ticks below getrusage.
+	if got > after+10*time.Millisecond || got < before-20*time.Millisecond || got == 0 {
+		t.Errorf("/proc says %v, getrusage %v to %v (x %v)", got, before, after, x > 0)
+	}
+	if d, err := procCPU(0); d != 0 || err != nil {
+		t.Errorf("pid 0: %v %v", d, err)
+	}
+	if _, err := procCPU(1 << 30); err == nil {
+		t.Error("no error for a missing process")
 	}
 }
