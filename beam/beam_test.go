@@ -175,6 +175,10 @@ func TestLearnVocabularyTwoFiles(t *testing.T) {
 	whole, parts := demoFiles(t, 1500)
 	st := vocabSettings(t, "team")
 	one := learnOne(t, whole, st)
+	// Small partial counts, so that the combine merges many of them per
+	// key (prism runs the workers in this process).
+	defer func(n int) { maxBundleKeys = n }(maxBundleKeys)
+	maxBundleKeys = 64
 	got := learnBeam(t, parts, st)
 	sameSpec(t, got, one)
 	// The demo corpus has one record per line after the header: N is the
@@ -268,5 +272,28 @@ func TestEncodeShardsEqualRows(t *testing.T) {
 	}
 	if !strings.Contains(got.String(), " # ") {
 		t.Error("rows carry no ids")
+	}
+}
+
+func TestLearnRefusesEmptyLabel(t *testing.T) {
+	dir := t.TempDir()
+	a := filepath.Join(dir, "a.tsv")
+	b := filepath.Join(dir, "b.tsv")
+	os.WriteFile(a, []byte("text\tteam\nthe dock was full\tdocks\n"), 0o644)
+	os.WriteFile(b, []byte("text\tteam\nbike chain broke\tbikes\napp froze\t\n"), 0o644)
+	st := vocabSettings(t, "team")
+	p, s := beam.NewPipelineWithRoot()
+	out := filepath.Join(dir, "spec.json")
+	if _, err := Learn(s, []string{a, b}, corpusOptions(st), st, out); err != nil {
+		t.Fatal(err)
+	}
+	_, err := prism.Execute(context.Background(), p)
+	// bowline learn refuses an empty label naming file and line
+	// (pipeline.Learn); so does the Beam job.
+	if err == nil || !strings.Contains(err.Error(), b+":3: the label field is empty") {
+		t.Fatalf("err = %v, want the empty label at %s:3", err, b)
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Errorf("a failed job left a spec: %v", err)
 	}
 }

@@ -127,42 +127,54 @@ func analyzer(settings []byte) (*spec.Content, *spec.Analyzer, error) {
 	return &c, a.NewAnalyzer(), nil
 }
 
-// keysFn emits, for each document, every distinct feature key with its
-// occurrences in the document and a document count of 1.
+// maxBundleKeys bounds the distinct keys (or buckets) a counting DoFn
+// holds before it emits its partial counts.
+var maxBundleKeys = 1 << 20
+
+// keysFn counts the feature keys of the documents of one bundle and emits
+// each key's partial count (occurrences, documents) at the end of the
+// bundle, or earlier when the bundle's keys pass maxBundleKeys: the
+// per-bundle half of the counting combine.
 type keysFn struct {
 	Settings []byte // spec content without learned numbers, as JSON
 
-	z    *spec.Analyzer
-	seen map[string]*KeyCount
-	keys []string
+	z      *spec.Analyzer
+	counts *vocab.Counts
 }
 
 func (f *keysFn) Setup() error {
 	_, z, err := analyzer(f.Settings)
-	f.z, f.seen = z, map[string]*KeyCount{}
+	f.z = z
 	return err
 }
 
+func (f *keysFn) StartBundle(ctx context.Context, emit func(string, KeyCount)) {
+	f.counts = vocab.NewCounts()
+}
+
 func (f *keysFn) ProcessElement(ctx context.Context, d Doc, emit func(string, KeyCount)) error {
-	f.keys = f.keys[:0]
-	f.z.Analyze(d.Text, func(key []byte, code int) {
-		if kc, ok := f.seen[string(key)]; ok {
-			kc.Count++
-			return
-		}
-		k := string(key)
-		f.seen[k] = &KeyCount{Order: code, Count: 1, Docs: 1}
-		f.keys = append(f.keys, k)
-	})
-	for _, k := range f.keys {
-		emit(k, *f.seen[k])
+	f.z.Analyze(d.Text, f.counts.Add)
+	f.counts.EndDoc()
+	if f.counts.Len() >= maxBundleKeys {
+		f.flush(emit)
 	}
-	clear(f.seen)
 	return nil
 }
 
-// bucketsFn emits, for each document, every distinct hashing bucket its
-// keys fall into, with a document count of 1.
+func (f *keysFn) FinishBundle(ctx context.Context, emit func(string, KeyCount)) {
+	f.flush(emit)
+}
+
+func (f *keysFn) flush(emit func(string, KeyCount)) {
+	f.counts.Each(func(key string, order int, count, docs int64) {
+		emit(key, KeyCount{Order: order, Count: count, Docs: docs})
+	})
+	f.counts = vocab.NewCounts()
+}
+
+// bucketsFn counts, over the documents of one bundle, the documents whose
+// keys fall into each hashing bucket, and emits the partial counts at the
+// end of the bundle (or past maxBundleKeys buckets).
 type bucketsFn struct {
 	Settings []byte
 	Off      bool // emit nothing (no idf to learn)
@@ -171,6 +183,7 @@ type bucketsFn struct {
 	h       *hashing.Hasher
 	width   uint64
 	touched map[uint64]struct{}
+	df      map[uint64]int64
 }
 
 func (f *bucketsFn) Setup() error {
@@ -181,7 +194,7 @@ func (f *bucketsFn) Setup() error {
 	if c.Hashing == nil {
 		return errors.New("bowline settings: not in hashing mode")
 	}
-	f.z, f.width, f.touched = z, c.Hashing.Width, map[uint64]struct{}{}
+	f.z, f.width, f.touched, f.df = z, c.Hashing.Width, map[uint64]struct{}{}, map[uint64]int64{}
 	f.h, err = hashing.New(c.Hashing.Width, c.Hashing.Seed, c.Hashing.Signed)
 	return err
 }
@@ -194,10 +207,20 @@ func (f *bucketsFn) ProcessElement(ctx context.Context, d Doc, emit func(uint64,
 		f.touched[hashing.BucketOf(f.h.Sum(key), f.width)] = struct{}{}
 	})
 	for b := range f.touched {
-		emit(b, 1)
+		f.df[b]++
 	}
 	clear(f.touched)
+	if len(f.df) >= maxBundleKeys {
+		f.FinishBundle(ctx, emit)
+	}
 	return nil
+}
+
+func (f *bucketsFn) FinishBundle(ctx context.Context, emit func(uint64, int64)) {
+	for b, n := range f.df {
+		emit(b, n)
+	}
+	clear(f.df)
 }
 
 // labelFn emits each record's label; a labelled corpus must have no empty
