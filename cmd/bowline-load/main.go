@@ -746,7 +746,29 @@ func (r *levelResult) reportRSS(out io.Writer, c *config) bool {
 	}
 	fmt.Fprintf(out, "  %d clients: RSS at %.0fs %.1f MiB, at the end (%.0fs) %.1f MiB, end/%.0fs = %.3f, %s ±%.0f%%\n",
 		r.clients, first.at.Seconds(), mib(first.kib), end.at.Seconds(), mib(end.kib), first.at.Seconds(), ratio, verdict, 100*c.rssTolerate)
+	// Single samples move with the collector's cycle; the medians of the
+	// 5 s after the first 5 s and of the last 5 s show a trend, if any.
+	early, late := rssMedian(r.rss, c.rssSettle, 2*c.rssSettle), rssMedian(r.rss, end.at-c.rssSettle, end.at+1)
+	if early > 0 && late > 0 && end.at >= 3*c.rssSettle {
+		fmt.Fprintf(out, "  %d clients: median RSS %.0f-%.0fs %.1f MiB, last %.0fs %.1f MiB, ratio %.3f (not the target's measure; for the trend)\n",
+			r.clients, c.rssSettle.Seconds(), 2*c.rssSettle.Seconds(), mib(early), c.rssSettle.Seconds(), mib(late), float64(late)/float64(early))
+	}
 	return ok
+}
+
+// rssMedian is the median of the samples taken in [from, to) (0: none).
+func rssMedian(samples []rssSample, from, to time.Duration) int64 {
+	var v []int64
+	for _, s := range samples {
+		if s.at >= from && s.at < to {
+			v = append(v, s.kib)
+		}
+	}
+	if len(v) == 0 {
+		return 0
+	}
+	slices.Sort(v)
+	return v[len(v)/2]
 }
 
 func mib(kib int64) float64 { return float64(kib) / 1024 }

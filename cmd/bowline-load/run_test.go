@@ -196,3 +196,18 @@ func TestProcCPU(t *testing.T) {
 		t.Error("no error for a missing process")
 	}
 }
+
+func TestRSSMedian(t *testing.T) {
+	var s []rssSample
+	for i, kib := range []int64{9, 50, 40, 60, 45, 70, 1} {
+		s = append(s, rssSample{time.Duration(i) * time.Second, kib})
+	}
+	// Samples at 1..4 s: 50 40 60 45, sorted 40 45 50 60; the upper
+	// median of an even count.
+	if got := rssMedian(s, time.Second, 5*time.Second); got != 50 {
+		t.Errorf("median %d, want 50", got)
+	}
+	if got := rssMedian(s, 10*time.Second, 20*time.Second); got != 0 {
+		t.Errorf("no samples: %d", got)
+	}
+}
