@@ -24,9 +24,11 @@ import (
 
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/io/filesystem"
+	beamlog "github.com/apache/beam/sdks/v2/go/pkg/beam/log"
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/x/beamx"
 
 	bowlinebeam "github.com/bowline/bowline/beam"
+	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/spec"
 )
 
@@ -80,7 +82,7 @@ func run(ctx context.Context, args []string, stderr io.Writer) int {
 		return exitOK
 	}
 	if err != nil {
-		fmt.Fprintf(stderr, "bowline-beam: %v\n", err)
+		fmt.Fprintf(stderr, "bowline-beam: %v\n", cause(err))
 		var u *usageError
 		if errors.As(err, &u) {
 			return exitUsage
@@ -115,7 +117,10 @@ func runLearn(ctx context.Context, args []string, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	beam.Init()
+	if err := checkLocal(c.pos, copts); err != nil {
+		return err
+	}
+	initBeam()
 	p, s := beam.NewPipelineWithRoot()
 	if _, err := bowlinebeam.Learn(s, c.pos, copts, st, out); err != nil {
 		return usagef("%v", err)
@@ -189,7 +194,10 @@ func runEncode(ctx context.Context, args []string, stderr io.Writer) error {
 	if n := len(specInput(copts).Text); n != len(sp.Content.Input.Text) {
 		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(sp.Content.Input.Text), strings.Join(sp.Content.Input.Text, ", "), n)
 	}
-	beam.Init()
+	if err := checkLocal(c.pos, copts); err != nil {
+		return err
+	}
+	initBeam()
 	p, s := beam.NewPipelineWithRoot()
 	if _, err := bowlinebeam.Encode(s, c.pos, copts, data, o); err != nil {
 		return usagef("%v", err)
@@ -199,6 +207,46 @@ func runEncode(ctx context.Context, args []string, stderr io.Writer) error {
 	}
 	fmt.Fprintf(stderr, "rows of %d file(s) written to %s-* with spec %s\n", len(c.pos), out, sp.Fingerprint)
 	return nil
+}
+
+// cause shortens a failed job's error, which carries the runner's
+// execution plan, to the DoFn's own error (its last line).
+func cause(err error) string {
+	msg := err.Error()
+	if i := strings.LastIndex(msg, "caused by:\n"); i >= 0 {
+		lines := strings.Split(strings.TrimSpace(msg[i:]), "\n")
+		return "job failed: " + lines[len(lines)-1]
+	}
+	return msg
+}
+
+// checkLocal opens the local corpus files before the job starts, so that a
+// missing file or field is reported as bowline reports it (remote files
+// are checked by the job itself).
+func checkLocal(paths []string, o corpus.Options) error {
+	for _, p := range paths {
+		if strings.Contains(p, "://") {
+			continue
+		}
+		r, err := corpus.Open(p, o)
+		if err != nil {
+			var pe *corpus.ParseError
+			var pathErr *os.PathError
+			if errors.As(err, &pe) || errors.As(err, &pathErr) {
+				return err
+			}
+			return usagef("%v", err)
+		}
+		r.Close()
+	}
+	return nil
+}
+
+// initBeam initializes the SDK for launching a pipeline; the SDK's and the
+// local runner's progress messages are shown from warnings up.
+func initBeam() {
+	beam.Init()
+	beamlog.SetupLogging("warn", "text")
 }
 
 // readAll reads a file through the Beam file systems (local paths, and

@@ -128,38 +128,63 @@ func TestLearnSameFingerprintAsBowline(t *testing.T) {
 
 func TestEncodeSameRowsAsBowline(t *testing.T) {
 	corpusPath := demoCorpus(t)
-	dir := t.TempDir()
-	specPath := filepath.Join(dir, "spec.json")
-	runBowline(t, "learn", corpusPath, "--text", "text", "--label", "team", "--id", "id", "--words", "1-2", "--min-docs", "3", "--idf", "smooth", "--norm", "l2", "-o", specPath, "--progress", "never")
-	want := filepath.Join(dir, "rows.svm")
-	runBowline(t, "encode", "--spec", specPath, corpusPath, "--with-ids", "-o", want, "--progress", "never")
-	prefix := filepath.Join(dir, "beam", "rows")
-	runBeam(t, "encode", "--spec", specPath, corpusPath, "--with-ids", "--shard-lines", "2000", "-o", prefix)
-	names, err := filepath.Glob(prefix + "-*")
-	if err != nil {
-		t.Fatal(err)
+	for _, tc := range []struct {
+		name        string
+		learn, both []string
+		shards      int
+	}{
+		// 5000 records on lines 2..5001: blocks 0, 1 and 2 of 2000 lines.
+		{"vocabulary", []string{"--text", "text", "--label", "team", "--id", "id", "--words", "1-2", "--min-docs", "3", "--idf", "smooth", "--norm", "l2"}, []string{"--with-ids"}, 3},
+		{"hashing", []string{"--text", "text", "--label", "sentiment", "--chars", "2-4", "--hash", "2^14", "--signed", "--idf", "plain", "--norm", "l1"}, []string{"--index-base", "0"}, 3},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			specPath := filepath.Join(dir, "spec.json")
+			runBowline(t, append([]string{"learn", corpusPath, "-o", specPath, "--progress", "never"}, tc.learn...)...)
+			want := filepath.Join(dir, "rows.svm")
+			runBowline(t, append([]string{"encode", "--spec", specPath, corpusPath, "-o", want, "--progress", "never"}, tc.both...)...)
+			prefix := filepath.Join(dir, "beam", "rows")
+			runBeam(t, append([]string{"encode", "--spec", specPath, corpusPath, "--shard-lines", "2000", "-o", prefix}, tc.both...)...)
+			names, err := filepath.Glob(prefix + "-*")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(names) != tc.shards {
+				t.Fatalf("shards %q, want %d", names, tc.shards)
+			}
+			var got []byte
+			for _, n := range names { // Glob sorts by name: record order
+				b, err := os.ReadFile(n)
+				if err != nil {
+					t.Fatal(err)
+				}
+				got = append(got, b...)
+			}
+			w, err := os.ReadFile(want)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !bytes.Equal(got, w) {
+				t.Fatalf("bowline-beam rows (%d bytes) differ from bowline encode's (%d bytes)", len(got), len(w))
+			}
+			if n := bytes.Count(got, []byte("\n")); n != 5000 {
+				t.Errorf("%d rows, want 5000", n)
+			}
+		})
 	}
-	// 5000 records on lines 2..5001: blocks 0, 1 and 2 of 2000 lines.
-	if len(names) != 3 {
-		t.Fatalf("shards %q, want 3", names)
+}
+
+func TestFailedJob(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "bad.tsv")
+	os.WriteFile(p, []byte("text\tteam\ndock full\tdocks\nseat loose\t\n"), 0o644)
+	var stderr bytes.Buffer
+	code := run(context.Background(), []string{"learn", p, "--label", "team", "-o", p + ".json"}, &stderr)
+	if code != exitFailure || !strings.Contains(stderr.String(), "bowline-beam: job failed: "+p+":3: the label field is empty") {
+		t.Errorf("exit %d, want %d with the record's position:\n%s", code, exitFailure, stderr.String())
 	}
-	var got []byte
-	for _, n := range names { // Glob sorts by name: record order
-		b, err := os.ReadFile(n)
-		if err != nil {
-			t.Fatal(err)
-		}
-		got = append(got, b...)
-	}
-	w, err := os.ReadFile(want)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !bytes.Equal(got, w) {
-		t.Fatalf("bowline-beam rows (%d bytes) differ from bowline encode's (%d bytes)", len(got), len(w))
-	}
-	if n := bytes.Count(got, []byte("\n")); n != 5000 {
-		t.Errorf("%d rows, want 5000", n)
+	stderr.Reset()
+	if code := run(context.Background(), []string{"learn", p, "--text", "body", "-o", p + ".json"}, &stderr); code != exitUsage || !strings.Contains(stderr.String(), `field "body" not found`) {
+		t.Errorf("missing field: exit %d, want %d:\n%s", code, exitUsage, stderr.String())
 	}
 }
 
