@@ -184,7 +184,8 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	fillTokenFigures(fig, as, dropped, ws.Features[:])
 	fig.EmptyDocs = st.empty
 	cols := int64(enc.Columns())
-	fig.Sparsity = sparsity(rows, cols, &st)
+	sp := sparsity(rows, cols, &st)
+	fig.Sparsity = &sp
 	fig.Labels = labelCounts(st.labelRows)
 	fig.Fields = FieldFigures(&s.Content, obs.Stats())
 	if s.Content.Mode == spec.ModeVocabulary {

@@ -173,7 +173,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 		return nil, nil, nil, labelErr
 	}
 	if docs == 0 {
-		return nil, nil, nil, errors.New(o.Name + ": no records to learn from")
+		return nil, nil, nil, fmt.Errorf("%s: %w", o.Name, ErrNoRecords)
 	}
 	merged := total
 	if !bounded {
@@ -225,14 +225,10 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 		fig.Rejected = o.Rejects.N
 	}
 	fillTokenFigures(fig, as, dropped, nil)
-	if merged.Counts() != nil {
-		// Every key emitted was counted once: the sum of the counts.
-		fig.Features = emitted
-	}
-	fig.Sparsity = report.Sparsity{NNZHistogram: []int64{}, Sparsity: 1}
+	// Every feature key the analysers emitted, in either mode.
+	fig.Features = emitted
 	if s != nil {
 		fig.Spec = s.Fingerprint
-		fig.Sparsity.Columns = s.Columns()
 		if s.Content.Mode == spec.ModeVocabulary {
 			fig.Vocabulary = vocabFigures(s, cut, o.TopTerms)
 			fig.Curves = Curves(s)

@@ -22,7 +22,7 @@ func ExampleFigures_WriteText() {
 			Occupied: 9, ExpectedOccupied: 8.6248, // 16·(1 − (15/16)^12), birthday-problem occupancy
 			Colliding: 5, Rate: 5.0 / 12, ExpectedRate: 0.5083, // 1 − (15/16)^11
 		},
-		Sparsity: report.Sparsity{
+		Sparsity: &report.Sparsity{
 			Rows: 4, Columns: 16, NNZ: 22, MeanNNZ: 5.5, MaxNNZ: 9,
 			Density: 22.0 / 64, Sparsity: 42.0 / 64,
 		},

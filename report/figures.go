@@ -40,8 +40,9 @@ type Figures struct {
 	OOV *OOV `json:"oov,omitempty"`
 	// Collisions is the collision account (hashing mode only).
 	Collisions *Collisions `json:"collisions,omitempty"`
-	// Sparsity describes the rows written.
-	Sparsity Sparsity `json:"sparsity"`
+	// Sparsity describes the rows written (absent when a run writes no
+	// rows, as learn does).
+	Sparsity *Sparsity `json:"sparsity,omitempty"`
 	// Vocabulary describes the vocabulary learned (learn only).
 	Vocabulary *VocabFigures `json:"vocabulary,omitempty"`
 	// Curves describe the spec's vocabulary for plots (vocabulary mode):

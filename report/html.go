@@ -181,6 +181,9 @@ func (f *Figures) plotsFor(title string) ([]htmlPlot, error) {
 			[]series{{"", []float64{100 * c.Rate, 100 * c.ExpectedRate}}})
 		err = add("Share of distinct keys whose bucket holds another key, measured and expected under uniform hashing, 1 − (1 − 1/m)^(n−1).", svg, e)
 	case "sparsity":
+		if f.Sparsity == nil {
+			break
+		}
 		if h := f.Sparsity.NNZHistogram; len(h) > 0 {
 			names := make([]string, len(h))
 			vals := make([]float64, len(h))

@@ -12,8 +12,10 @@ import (
 // when empty, so readers need not tell the two apart.
 func (f *Figures) WriteJSON(w io.Writer) error {
 	c := *f
-	if c.Sparsity.NNZHistogram == nil {
-		c.Sparsity.NNZHistogram = []int64{}
+	if c.Sparsity != nil && c.Sparsity.NNZHistogram == nil {
+		sp := *c.Sparsity
+		sp.NNZHistogram = []int64{}
+		c.Sparsity = &sp
 	}
 	if c.OOV != nil && c.OOV.ByOrder == nil {
 		o := *c.OOV

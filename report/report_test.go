@@ -52,7 +52,7 @@ func hashingFigures() *Figures {
 			Rate:             float64(colliding) / hashKeys,
 			ExpectedRate:     expectedRate(hashKeys, hashWidth),
 		},
-		Sparsity: Sparsity{
+		Sparsity: &Sparsity{
 			Rows: 5000, Columns: hashWidth, NNZ: 150000,
 			MeanNNZ: 30, MaxNNZ: 400,
 			Density:      150000 / (5000.0 * hashWidth),
@@ -82,7 +82,7 @@ func vocabFigures() *Figures {
 			},
 			TopUnseen: []Count{{"<script>alert(1)</script>", 12}, {"harlow quay", 9}},
 		},
-		Sparsity: Sparsity{Rows: 1000, Columns: 5100, NNZ: 25000, MeanNNZ: 25, MaxNNZ: 90,
+		Sparsity: &Sparsity{Rows: 1000, Columns: 5100, NNZ: 25000, MeanNNZ: 25, MaxNNZ: 90,
 			Density: 25000 / (1000.0 * 5100), Sparsity: 1 - 25000/(1000.0*5100), NNZHistogram: []int64{3, 20, 100, 500, 370, 7}},
 		Vocabulary: &VocabFigures{
 			Seen: 9000, Kept: 5100, BelowMinDocs: 3800, AboveMaxShare: 100, OverMaxTerms: 0,

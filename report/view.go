@@ -51,7 +51,7 @@ func (f *Figures) sections() []section {
 	if f.Collisions != nil {
 		out = append(out, f.collisionSection())
 	}
-	if s := f.Sparsity; s.Rows != 0 || s.NNZ != 0 {
+	if s := f.Sparsity; s != nil && (s.Rows != 0 || s.NNZ != 0) {
 		out = append(out, f.sparsitySection())
 	}
 	if f.Vocabulary != nil {
@@ -159,7 +159,7 @@ func (f *Figures) collisionSection() section {
 }
 
 func (f *Figures) sparsitySection() section {
-	p := f.Sparsity
+	p := *f.Sparsity
 	s := section{Title: "sparsity"}
 	s.Pairs = []pair{
 		{"rows x columns", itoa(p.Rows) + " x " + itoa(p.Columns)},

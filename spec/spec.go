@@ -392,7 +392,7 @@ func Read(r io.Reader, name string) (*Spec, error) {
 		return nil, &LoadError{File: name, Reason: "not a spec", Err: errors.New("no schema or content field")}
 	}
 	if fl.Schema > SchemaVersion {
-		return nil, &LoadError{File: name, Reason: "newer schema", Err: fmt.Errorf("schema version %d (written by bowline %s); this bowline %s reads up to version %d", fl.Schema, fl.Tool, ToolVersion, SchemaVersion)}
+		return nil, &LoadError{File: name, Reason: "newer schema", Err: fmt.Errorf("schema version %d (written by %s); this bowline %s reads up to version %d", fl.Schema, fl.Tool, ToolVersion, SchemaVersion)}
 	}
 	s := &Spec{Fingerprint: fl.Fingerprint, Parent: fl.Parent, Tool: fl.Tool}
 	cdec := json.NewDecoder(bytes.NewReader(fl.Content))

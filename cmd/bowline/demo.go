@@ -103,7 +103,7 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 	} else {
 		fmt.Fprint(stderr, acc)
 	}
-	fmt.Fprintf(stderr, "\nfiles in %s/: pellwick.tsv train.tsv test.tsv spec.json features.tsv train.svm test.svm encode.html learn.json spec-hash.json test-hash.svm encode-hash.json\n", dir)
+	fmt.Fprintf(stderr, "\nfiles in %s/: pellwick.tsv train.tsv test.tsv spec.json features.tsv train.svm test.svm encode.html learn.json spec-hash.json learn-hash.json test-hash.svm encode-hash.json (and team.model, test.predicted when liblinear ran)\n", dir)
 	return nil
 }
 

@@ -90,6 +90,9 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if of.withIDs && copts.ID == "" {
+		return usagef("--with-ids needs an id field: the spec was learned without --id; give --id NAME")
+	}
 	if n := len(specInput(copts).Text); n != len(s.Content.Input.Text) {
 		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}

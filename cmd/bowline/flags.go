@@ -65,7 +65,11 @@ func (c *command) parse(args []string) error {
 				c.usage(os.Stdout)
 				return flag.ErrHelp
 			}
-			return usagef("bowline %s: %v (see bowline %s --help)", c.name, err, c.name)
+			msg := err.Error()
+			if name, ok := strings.CutPrefix(msg, "flag provided but not defined: -"); ok {
+				msg = "unknown flag --" + strings.TrimLeft(name, "-")
+			}
+			return usagef("%s: %s (see bowline %s --help)", c.name, msg, c.name)
 		}
 		rest := c.fs.Args()
 		if len(rest) == 0 {
@@ -89,15 +93,18 @@ func (c *command) usage(w io.Writer) {
 	sort.Strings(names)
 	for _, n := range names {
 		f := c.fs.Lookup(n)
-		dash := "--"
+		name := "--" + n
 		if len(n) == 1 {
-			dash = "-"
+			name = "-" + n
 		}
-		def := f.DefValue
-		if def == "" {
-			def = "none"
+		def := " [" + f.DefValue + "]"
+		if f.DefValue == "" {
+			def = " [none]"
 		}
-		fmt.Fprintf(w, "  %s%-16s %s [%s]\n", dash, n, f.Usage, def)
+		if _, list := f.Value.(*listFlag); list {
+			def = "" // the usage text says what happens without it
+		}
+		fmt.Fprintf(w, "  %-18s %s%s\n", name, f.Usage, def)
 	}
 }
 
@@ -398,6 +405,15 @@ func (f *analysisFlags) settings(in spec.Input, set map[string]bool) (*spec.Sett
 		}
 	}
 	s.Mode = spec.ModeVocabulary
+	if f.minDocs < 1 {
+		return nil, usagef("--min-docs: %d is below 1", f.minDocs)
+	}
+	if !(f.maxDocShare > 0 && f.maxDocShare <= 1) {
+		return nil, usagef("--max-doc-share: %g is not a share in (0, 1]", f.maxDocShare)
+	}
+	if f.maxTerms < 0 {
+		return nil, usagef("--max-terms: %d is negative (0 means no limit)", f.maxTerms)
+	}
 	s.Cutoffs = vocab.Cutoffs{MinDocs: f.minDocs, MaxDocShare: f.maxDocShare, MaxTerms: f.maxTerms}
 	if err := s.Cutoffs.Validate(); err != nil {
 		return nil, usagef("%v", err)
@@ -638,7 +654,11 @@ func specSetting(name string, c *spec.Content) string {
 		if len(c.Stop.Words) == 0 {
 			return "no stop words"
 		}
-		return fmt.Sprintf("stop %s, %d words, negations kept %v", strings.Join(c.Stop.Sources, " "), len(c.Stop.Words), c.Stop.KeepNegations)
+		neg := "negations kept"
+		if !c.Stop.KeepNegations {
+			neg = "negations dropped"
+		}
+		return fmt.Sprintf("stop %s, %d words, %s", strings.Join(c.Stop.Sources, " "), len(c.Stop.Words), neg)
 	case "stem":
 		return "stem " + c.Stem
 	case "words", "chars":

@@ -117,7 +117,7 @@ type orderView struct {
 }
 
 type termView struct {
-	Column  int    `json:"column"` // 0-based
+	Column  int    `json:"column"` // 1-based, as in the rows and the feature map
 	Key     string `json:"key"`
 	Docs    int64  `json:"docs"`
 	Retired bool   `json:"retired,omitempty"`
@@ -224,7 +224,7 @@ func inspectSpec(s *spec.Spec, top int) *inspectView {
 		return v.Keys[idx[a]] < v.Keys[idx[b]]
 	})
 	for _, i := range idx[:min(top, len(idx))] {
-		vv.TopTerms = append(vv.TopTerms, termView{Column: i, Key: v.Keys[i], Docs: v.DocCounts[i], Retired: len(v.Retired) > i && v.Retired[i]})
+		vv.TopTerms = append(vv.TopTerms, termView{Column: i + 1, Key: v.Keys[i], Docs: v.DocCounts[i], Retired: len(v.Retired) > i && v.Retired[i]})
 	}
 	if sn := v.Seen; sn != nil {
 		vv.Cutoffs = cutoffTable(sn, ct.Docs, v)

@@ -192,6 +192,9 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	if lf.limit > 0 {
 		describePruning(stderr, lf.limit, learner.KeyLimit(), s.Content.Vocabulary.Seen.Pruning)
 	}
+	if v := s.Content.Vocabulary; v != nil && len(v.Keys) == 0 {
+		fmt.Fprintf(stderr, "\nwarning: no key passed the cutoffs (--min-docs %d, --max-doc-share %g over %d documents): the spec has no vocabulary column\n", v.MinDocs, v.MaxDocShare, s.Content.Docs)
+	}
 	fmt.Fprintf(stderr, "\nspec %s written to %s\n", s.ShortFingerprint(), of.out)
 	return writeReport(of.report, fig)
 }

@@ -119,9 +119,16 @@ func profiled(fn func() int) int {
 }
 
 func run(args []string, stdout, stderr io.Writer) int {
-	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+	if len(args) == 0 {
+		topUsage(stderr)
+		return exitUsage
+	}
+	if args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
 		topUsage(stdout)
 		return exitOK
+	}
+	if args[0] == "--version" || args[0] == "-version" {
+		args = append([]string{"version"}, args[1:]...)
 	}
 	for _, c := range commands {
 		if c.name == args[0] {
@@ -166,7 +173,7 @@ func exitCode(err error, stderr io.Writer) int {
 			return exitIO
 		}
 		return exitSpec
-	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se), errors.As(err, &she):
+	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se), errors.As(err, &she), errors.Is(err, pipeline.ErrNoRecords):
 		return exitData
 	case errors.As(err, &pathErr), errors.As(err, new(*ioError)),
 		errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, gzip.ErrChecksum), errors.Is(err, gzip.ErrHeader):
