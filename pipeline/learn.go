@@ -273,7 +273,20 @@ func vocabFigures(s *spec.Spec, cut vocab.CutReport, top int) *report.VocabFigur
 	if top == 0 {
 		top = 10
 	}
-	for i := 0; i < len(v.Keys) && i < top; i++ {
+	// Columns are in document-count order, except after --extend, where
+	// the parent's columns come first: rank them again.
+	idx := make([]int, len(v.Keys))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool {
+		da, db := v.DocCounts[idx[a]], v.DocCounts[idx[b]]
+		if da != db {
+			return da > db
+		}
+		return v.Keys[idx[a]] < v.Keys[idx[b]]
+	})
+	for _, i := range idx[:min(top, len(idx))] {
 		vf.TopTerms = append(vf.TopTerms, report.Count{Name: v.Keys[i], Count: v.DocCounts[i]})
 	}
 	return vf
