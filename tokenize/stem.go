@@ -1,6 +1,7 @@
 package tokenize
 
 import (
+	"encoding/binary"
 	"fmt"
 	"strings"
 
@@ -49,8 +50,47 @@ const DefaultStemCacheSize = 1 << 16
 // use one per goroutine.
 type Stemmer struct {
 	lang  stemLang
-	cache map[string][]byte
+	cache map[string][]byte // words longer than 16 bytes
 	limit int
+	// short caches words of at most 16 bytes in an open-addressing table
+	// keyed by the packed bytes themselves, so that a hit hashes no
+	// string; their stems live in arena.
+	short  []stemSlot
+	nshort int
+	arena  []byte
+}
+
+// stemSlot is one cached short word: its bytes packed little-endian into
+// lo and hi, its length, and where its stem lies in the arena.
+type stemSlot struct {
+	lo, hi uint64
+	n      int32 // 0 = empty
+	off    int32
+	slen   int32
+}
+
+const stemTableSize = 2 * DefaultStemCacheSize // at most half full
+
+func packWord(b []byte) (lo, hi uint64) {
+	var a [16]byte
+	copy(a[:], b)
+	return binary.LittleEndian.Uint64(a[:8]), binary.LittleEndian.Uint64(a[8:])
+}
+
+func stemSlotOf(lo, hi uint64, n int) uint64 {
+	return ((lo ^ hi*0x9e3779b97f4a7c15 ^ uint64(n)) * 0xff51afd7ed558ccd) >> (64 - 17)
+}
+
+// entries is the number of words cached.
+func (s *Stemmer) entries() int { return len(s.cache) + s.nshort }
+
+// reset empties the cache. Stems returned earlier stay valid: the arena
+// is replaced, not reused.
+func (s *Stemmer) reset() {
+	clear(s.cache)
+	clear(s.short)
+	s.nshort = 0
+	s.arena = make([]byte, 0, 1<<16)
 }
 
 // NewStemmer returns a Stemmer for lang, given as a code from StemLanguages
@@ -59,7 +99,8 @@ func NewStemmer(lang string) (*Stemmer, error) {
 	l := strings.ToLower(strings.TrimSpace(lang))
 	for _, sl := range stemLangs {
 		if l == sl.code || l == sl.name {
-			return &Stemmer{lang: sl, cache: make(map[string][]byte), limit: DefaultStemCacheSize}, nil
+			return &Stemmer{lang: sl, cache: make(map[string][]byte), limit: DefaultStemCacheSize,
+				short: make([]stemSlot, stemTableSize)}, nil
 		}
 	}
 	return nil, fmt.Errorf("tokenize: no stemmer for language %q (known: %s)", lang, strings.Join(StemLanguages(), ", "))
@@ -78,19 +119,51 @@ func (s *Stemmer) Language() string { return s.lang.code }
 // before is answered from the cache without allocating; the cache holds at
 // most DefaultStemCacheSize words and is emptied when full.
 func (s *Stemmer) Stem(tok []byte) []byte {
-	if st, ok := s.cache[string(tok)]; ok {
+	n := len(tok)
+	var slot uint64
+	var lo, hi uint64
+	if n > 0 && n <= 16 {
+		lo, hi = packWord(tok)
+		mask := uint64(len(s.short) - 1)
+		for slot = stemSlotOf(lo, hi, n) & mask; ; slot = (slot + 1) & mask {
+			e := &s.short[slot]
+			if e.n == 0 {
+				break
+			}
+			if e.lo == lo && e.hi == hi && int(e.n) == n {
+				return s.arena[e.off : e.off+e.slen : e.off+e.slen]
+			}
+		}
+	} else if st, ok := s.cache[string(tok)]; ok {
 		return st
 	}
-	if len(s.cache) >= s.limit {
-		clear(s.cache)
+	if s.entries() >= s.limit {
+		s.reset()
+		if n > 0 && n <= 16 {
+			// The table was emptied: find the word's slot again.
+			mask := uint64(len(s.short) - 1)
+			slot = stemSlotOf(lo, hi, n) & mask
+		}
 	}
+	st := s.compute(tok)
+	if n > 0 && n <= 16 && len(s.arena)+len(st) < 1<<31 {
+		off := len(s.arena)
+		s.arena = append(s.arena, st...)
+		s.short[slot] = stemSlot{lo: lo, hi: hi, n: int32(n), off: int32(off), slen: int32(len(st))}
+		s.nshort++
+		return s.arena[off : off+len(st) : off+len(st)]
+	}
+	s.cache[string(tok)] = st
+	return st
+}
+
+// compute stems tok with the Snowball stemmer.
+func (s *Stemmer) compute(tok []byte) []byte {
 	w := string(tok)
 	if s.lang.code == "ru" && strings.Contains(w, "ё") {
 		// Snowball 2.x treats ё as е before stemming Russian;
 		// kljensen/snowball v0.10.0 does not.
 		w = strings.ReplaceAll(w, "ё", "е")
 	}
-	st := []byte(s.lang.stem(w, true))
-	s.cache[string(tok)] = st
-	return st
+	return []byte(s.lang.stem(w, true))
 }

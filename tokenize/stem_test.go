@@ -165,8 +165,8 @@ func TestStemCache(t *testing.T) {
 	st.limit = 10
 	for i := 0; i < 35; i++ {
 		st.Stem([]byte(fmt.Sprintf("riders%d", i)))
-		if len(st.cache) > st.limit {
-			t.Fatalf("cache holds %d words, limit %d", len(st.cache), st.limit)
+		if st.entries() > st.limit {
+			t.Fatalf("cache holds %d words, limit %d", st.entries(), st.limit)
 		}
 	}
 	if string(first) != "connect" {
