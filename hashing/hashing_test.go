@@ -135,7 +135,7 @@ func TestSumMatchesXxhsumLive(t *testing.T) {
 
 // specXXH64 is XXH64 written out from the algorithm description in the
 // xxHash specification (doc/xxhash_spec.md in the xxHash project), recalled
-// from memory, independently of github.com/cespare/xxhash. Its transcription
+// from memory, independently of github.com/cespare/xxhash. Its re-implementation
 // is itself checked against xxhsum's values for seed 0 below before it is
 // used to check seeds that xxhsum cannot take.
 func specXXH64(in []byte, seed uint64) uint64 {
@@ -199,13 +199,13 @@ func specXXH64(in []byte, seed uint64) uint64 {
 }
 
 // Source: the XXH64 algorithm of the xxHash specification (recalled from
-// memory, see specXXH64), whose transcription is first confirmed against
+// memory, see specXXH64), whose re-implementation is first confirmed against
 // xxhsum -H1 values (Debian package xxhash 0.8.1-1, golden file).
 func TestSeededSumMatchesSpecification(t *testing.T) {
 	gs := readGolden(t)
 	for _, g := range gs {
 		if got := specXXH64(g.key, 0); got != g.sum {
-			t.Fatalf("the test's own XXH64 transcription is wrong: %x -> %016x, xxhsum says %016x", g.key, got, g.sum)
+			t.Fatalf("the test's own XXH64 re-implementation is wrong: %x -> %016x, xxhsum says %016x", g.key, got, g.sum)
 		}
 	}
 	keys := [][]byte{}
