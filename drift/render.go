@@ -77,7 +77,7 @@ func (r *Result) WriteText(w io.Writer) error {
 			bw.WriteString("  " + p.Label + strings.Repeat(" ", width-runeLen(p.Label)+2) + p.Value + "\n")
 		}
 		for _, t := range s.Tables {
-			writeTable(bw, t)
+			t.WriteText(bw)
 		}
 		for _, n := range s.Notes {
 			bw.WriteString("  - " + n + "\n")
@@ -99,12 +99,7 @@ type section struct {
 type pair struct{ Label, Value string }
 
 // table is a grid; Num marks right-aligned columns.
-type table struct {
-	Caption string
-	Head    []string
-	Num     []bool
-	Rows    [][]string
-}
+type table = report.Table
 
 // caution is shown wherever strings from the corpus appear in the report.
 const caution = "Caution: keys are strings from the text and can carry personal data " +
@@ -214,45 +209,6 @@ func (r *Result) sections() []section {
 		out = append(out, section{Title: "notes", Notes: r.Notes})
 	}
 	return out
-}
-
-func writeTable(w *bufio.Writer, t table) {
-	if t.Caption != "" {
-		w.WriteString("  " + t.Caption + "\n")
-	}
-	widths := make([]int, len(t.Head))
-	for i, h := range t.Head {
-		widths[i] = runeLen(h)
-	}
-	for _, r := range t.Rows {
-		for i, c := range r {
-			widths[i] = max(widths[i], runeLen(c))
-		}
-	}
-	line := func(cells []string) {
-		var b strings.Builder
-		b.WriteString("    ")
-		for i, c := range cells {
-			pad := strings.Repeat(" ", widths[i]-runeLen(c))
-			if i > 0 {
-				b.WriteString("  ")
-			}
-			switch {
-			case t.Num[i]:
-				b.WriteString(pad + c)
-			case i == len(cells)-1:
-				b.WriteString(c)
-			default:
-				b.WriteString(c + pad)
-			}
-		}
-		b.WriteByte('\n')
-		w.WriteString(b.String())
-	}
-	line(t.Head)
-	for _, r := range t.Rows {
-		line(r)
-	}
 }
 
 func runeLen(s string) int { return len([]rune(s)) }

@@ -53,7 +53,7 @@ func rankPlot(c *VocabCurves) (*plot.Plot, vg.Length, vg.Length, error) {
 	if err != nil {
 		return nil, 0, 0, err
 	}
-	l.Color = palette[0]
+	l.Color = Palette[0]
 	l.Width = vg.Points(1.5)
 	p.Add(l, plotter.NewGrid())
 	return p, 16 * vg.Centimeter, 9 * vg.Centimeter, nil
@@ -84,7 +84,7 @@ func histPlot(c *VocabCurves) (*plot.Plot, vg.Length, vg.Length, error) {
 	if err != nil {
 		return nil, 0, 0, err
 	}
-	l.Color, s.Color = palette[0], palette[0]
+	l.Color, s.Color = Palette[0], Palette[0]
 	p.Add(l, s, plotter.NewGrid())
 	cut := func(x float64, name string, col color.Color) error {
 		if x <= 0 {
@@ -100,10 +100,10 @@ func histPlot(c *VocabCurves) (*plot.Plot, vg.Length, vg.Length, error) {
 		p.Legend.Add(name, v)
 		return nil
 	}
-	if err := cut(float64(c.MinDocs), fmt.Sprintf("--min-docs %d", c.MinDocs), palette[1]); err != nil {
+	if err := cut(float64(c.MinDocs), fmt.Sprintf("--min-docs %d", c.MinDocs), Palette[1]); err != nil {
 		return nil, 0, 0, err
 	}
-	if err := cut(c.MaxDocs, fmt.Sprintf("--max-doc-share (%.0f docs)", c.MaxDocs), palette[2]); err != nil {
+	if err := cut(c.MaxDocs, fmt.Sprintf("--max-doc-share (%.0f docs)", c.MaxDocs), Palette[2]); err != nil {
 		return nil, 0, 0, err
 	}
 	p.Legend.Top = true

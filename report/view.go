@@ -17,7 +17,7 @@ import (
 type section struct {
 	Title  string
 	Pairs  []pair
-	Tables []table
+	Tables []Table
 	// Note is a caution shown under the section (HTML only).
 	Note string
 }
@@ -26,14 +26,6 @@ type section struct {
 type pair struct {
 	Label string
 	Value string
-}
-
-// table is a small grid; Num marks right-aligned (numeric) columns.
-type table struct {
-	Caption string
-	Head    []string
-	Num     []bool
-	Rows    [][]string
 }
 
 // topCount is how many stop words the run section lists inline.
@@ -119,7 +111,7 @@ func (f *Figures) oovSection() section {
 		{"type share", pct(o.TypeShare) + "  (" + itoa(o.UnseenKeys) + " of " + itoa(o.Keys) + " distinct keys)"},
 	}
 	if len(o.ByOrder) > 0 {
-		t := table{
+		t := Table{
 			Caption: "per n-gram order",
 			Head:    []string{"order", "features", "unseen", "token share", "keys", "unseen keys", "type share"},
 			Num:     []bool{false, true, true, true, true, true, true},
@@ -169,7 +161,7 @@ func (f *Figures) sparsitySection() section {
 		{"sparsity", pctNearOne(p.Sparsity)},
 	}
 	if len(p.NNZHistogram) > 0 {
-		t := table{
+		t := Table{
 			Caption: "rows by non-zeros",
 			Head:    []string{"non-zeros", "rows", "share"},
 			Num:     []bool{false, true, true},
@@ -193,7 +185,7 @@ func (f *Figures) vocabSection() section {
 		{"cut by --max-terms", itoa(v.OverMaxTerms)},
 	}
 	if len(v.ByOrder) > 0 {
-		t := table{Caption: "kept per n-gram order", Head: []string{"order", "kept", "share"}, Num: []bool{false, true, true}}
+		t := Table{Caption: "kept per n-gram order", Head: []string{"order", "kept", "share"}, Num: []bool{false, true, true}}
 		for _, c := range v.ByOrder {
 			t.Rows = append(t.Rows, []string{c.Name, itoa(c.Count), share(c.Count, v.Kept)})
 		}
@@ -211,7 +203,7 @@ func (f *Figures) labelSection() section {
 	for _, c := range f.Labels {
 		total += c.Count
 	}
-	return section{Title: "labels", Tables: []table{countTable("", "label", f.Labels, total)}}
+	return section{Title: "labels", Tables: []Table{countTable("", "label", f.Labels, total)}}
 }
 
 func (f *Figures) throughputSection() section {
@@ -229,8 +221,8 @@ func (f *Figures) throughputSection() section {
 }
 
 // countTable lists names with counts; with total > 0 it adds a share column.
-func countTable(caption, name string, cs []Count, total int64) table {
-	t := table{Caption: caption, Head: []string{name, "count"}, Num: []bool{false, true}}
+func countTable(caption, name string, cs []Count, total int64) Table {
+	t := Table{Caption: caption, Head: []string{name, "count"}, Num: []bool{false, true}}
 	if total > 0 {
 		t.Head = append(t.Head, "share")
 		t.Num = append(t.Num, true)
@@ -357,14 +349,14 @@ func elapsed(sec float64) string {
 // (missing share), one for categories and one for numbers.
 func (f *Figures) fieldSection() section {
 	s := section{Title: "table fields"}
-	all := table{Caption: "per field", Head: []string{"field", "kind", "docs", "missing", "missing share"},
+	all := Table{Caption: "per field", Head: []string{"field", "kind", "docs", "missing", "missing share"},
 		Num: []bool{false, false, true, true, true}}
-	cats := table{Caption: "categories", Head: []string{"field", "levels", "seen", "other", "other share", "unseen", "unseen share"},
+	cats := Table{Caption: "categories", Head: []string{"field", "levels", "seen", "other", "other share", "unseen", "unseen share"},
 		Num: []bool{false, true, true, true, true, true, true}}
-	nums := table{Caption: "numbers (after log, before standardization; population sd)",
+	nums := Table{Caption: "numbers (after log, before standardization; population sd)",
 		Head: []string{"field", "mean", "frozen mean", "sd", "frozen sd", "min", "max", "frozen range", "out of range"},
 		Num:  []bool{false, true, true, true, true, true, true, false, true}}
-	times := table{Caption: "times", Head: []string{"field", "first", "last", "zone"}, Num: []bool{false, false, false, false}}
+	times := Table{Caption: "times", Head: []string{"field", "first", "last", "zone"}, Num: []bool{false, false, false, false}}
 	for _, x := range f.Fields {
 		all.Rows = append(all.Rows, []string{x.Name, x.Kind, itoa(x.Docs), itoa(x.Missing), pct(x.MissingShare)})
 		if c := x.Category; c != nil {
@@ -381,7 +373,7 @@ func (f *Figures) fieldSection() section {
 		}
 	}
 	s.Tables = append(s.Tables, all)
-	for _, t := range []table{cats, nums, times} {
+	for _, t := range []Table{cats, nums, times} {
 		if len(t.Rows) > 0 {
 			s.Tables = append(s.Tables, t)
 		}

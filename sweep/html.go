@@ -1,7 +1,6 @@
 package sweep
 
 import (
-	"bytes"
 	"fmt"
 	"html/template"
 	"image/color"
@@ -10,11 +9,11 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/report"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgsvg"
 )
 
 // WriteHTML writes the sweep as one self-contained HTML page: the summary,
@@ -57,9 +56,9 @@ func (r *Result) WriteHTML(w io.Writer) error {
 		if p == nil {
 			continue
 		}
-		svg, err := svgOf(p)
+		svg, err := report.SVG(p, 6.5*vg.Inch, 3.4*vg.Inch)
 		if err != nil {
-			return err
+			return fmt.Errorf("sweep: drawing plot: %w", err)
 		}
 		page.Plots = append(page.Plots, htmlPlot{Caption: pl.caption, SVG: svg})
 	}
@@ -99,18 +98,11 @@ var pageTemplate = template.Must(template.New("page").Parse(`<!DOCTYPE html>
 <meta charset="utf-8">
 <title>{{.Title}}</title>
 <style>
-body { font-family: sans-serif; margin: 2em auto; max-width: 62em; padding: 0 1em; color: #222; }
-h1 { font-size: 1.5em; }
-h2 { font-size: 1.2em; border-bottom: 1px solid #ccc; padding-bottom: .2em; margin-top: 2em; }
-table { border-collapse: collapse; margin: .8em 0; }
-th, td { padding: .15em .8em .15em 0; text-align: left; vertical-align: top; }
-thead th { border-bottom: 1px solid #ccc; }
+` + report.PageCSS + `body { max-width: 62em; }
 table.facts th { font-weight: normal; color: #555; }
 table.sweep td, table.sweep th { text-align: right; font-variant-numeric: tabular-nums; }
 table.sweep tr.vocab td { font-weight: bold; }
-figure { margin: 1em 0; }
-figure svg { max-width: 100%; height: auto; }
-figcaption, p.note { font-size: .9em; color: #555; }
+p.note { font-size: .9em; color: #555; }
 </style>
 </head>
 <body>
@@ -155,11 +147,7 @@ figcaption, p.note { font-size: .9em; color: #555; }
 </html>
 `))
 
-var (
-	blue   = color.RGBA{R: 0x2b, G: 0x6c, B: 0xb0, A: 0xff}
-	orange = color.RGBA{R: 0xd9, G: 0x7a, B: 0x1e, A: 0xff}
-	green  = color.RGBA{R: 0x4a, G: 0x9a, B: 0x5b, A: 0xff}
-)
+var blue, orange, green = report.Palette[0], report.Palette[1], report.Palette[2]
 
 // widthAxis sets the x axis to log2 of the width, with "2^k" ticks.
 func (r *Result) widthAxis(p *plot.Plot) (lo, hi float64) {
@@ -297,20 +285,4 @@ func hline(x0, x1, y float64, c color.Color) (*plotter.Line, error) {
 	l.Width = vg.Points(1.5)
 	l.Dashes = []vg.Length{vg.Points(6), vg.Points(4)}
 	return l, nil
-}
-
-// svgOf draws p on an SVG canvas and returns the <svg> element alone.
-func svgOf(p *plot.Plot) (template.HTML, error) {
-	c := vgsvg.New(6.5*vg.Inch, 3.4*vg.Inch)
-	p.Draw(draw.New(c))
-	var buf bytes.Buffer
-	if _, err := c.WriteTo(&buf); err != nil {
-		return "", err
-	}
-	s := buf.String()
-	i := strings.Index(s, "<svg")
-	if i < 0 {
-		return "", fmt.Errorf("sweep: no <svg> element in plot output")
-	}
-	return template.HTML(strings.TrimSpace(s[i:])), nil
 }
