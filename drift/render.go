@@ -223,25 +223,8 @@ func share(part, whole int64) string {
 	return "  (" + pct(float64(part)/float64(whole)) + ")"
 }
 
-// pct formats a fraction as a percentage: one decimal from 10%, two from
-// 0.1%, three significant digits below.
-func pct(x float64) string {
-	v := x * 100
-	switch {
-	case math.IsNaN(v) || math.IsInf(v, 0):
-		return "n/a"
-	case v == 0:
-		return "0%"
-	case v == 100:
-		return "100%"
-	case v >= 10:
-		return strconv.FormatFloat(v, 'f', 1, 64) + "%"
-	case v >= 0.1:
-		return strconv.FormatFloat(v, 'f', 2, 64) + "%"
-	default:
-		return strconv.FormatFloat(v, 'g', 3, 64) + "%"
-	}
-}
+// pct formats a fraction as a percentage, as report.Percent does.
+func pct(x float64) string { return report.Percent(x) }
 
 // pp formats a change of share in percentage points, with its sign.
 func pp(x float64) string {

@@ -291,7 +291,7 @@ func TestPercent(t *testing.T) {
 		{0, "0%"}, {1, "100%"}, {0.25, "25.0%"}, {0.0204, "2.04%"}, {0.001, "0.10%"},
 		{0.000235, "0.0235%"}, {math.NaN(), "n/a"},
 	} {
-		if got := pct(c.x); got != c.want {
+		if got := Percent(c.x); got != c.want {
 			t.Errorf("pct(%v) = %q, want %q", c.x, got, c.want)
 		}
 	}

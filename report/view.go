@@ -82,7 +82,7 @@ func (f *Figures) runSection() section {
 	}
 	add("tokens", itoa(f.Tokens))
 	if f.StopDropped != 0 || len(f.TopStopWords) > 0 {
-		v := itoa(f.StopDropped) + "  " + pct(f.StopShare)
+		v := itoa(f.StopDropped) + "  " + Percent(f.StopShare)
 		if len(f.TopStopWords) > 0 {
 			n := min(len(f.TopStopWords), topCount)
 			words := make([]string, n)
@@ -107,8 +107,8 @@ func (f *Figures) oovSection() section {
 	o := f.OOV
 	s := section{Title: "out-of-vocabulary"}
 	s.Pairs = []pair{
-		{"token share", pct(o.TokenShare) + "  (" + itoa(o.Unseen) + " of " + itoa(o.Features) + " features)"},
-		{"type share", pct(o.TypeShare) + "  (" + itoa(o.UnseenKeys) + " of " + itoa(o.Keys) + " distinct keys)"},
+		{"token share", Percent(o.TokenShare) + "  (" + itoa(o.Unseen) + " of " + itoa(o.Features) + " features)"},
+		{"type share", Percent(o.TypeShare) + "  (" + itoa(o.UnseenKeys) + " of " + itoa(o.Keys) + " distinct keys)"},
 	}
 	if len(o.ByOrder) > 0 {
 		t := Table{
@@ -117,8 +117,8 @@ func (f *Figures) oovSection() section {
 			Num:     []bool{false, true, true, true, true, true, true},
 		}
 		for _, r := range o.ByOrder {
-			t.Rows = append(t.Rows, []string{r.Order, itoa(r.Features), itoa(r.Unseen), pct(r.TokenShare),
-				itoa(r.Keys), itoa(r.UnseenKeys), pct(r.TypeShare)})
+			t.Rows = append(t.Rows, []string{r.Order, itoa(r.Features), itoa(r.Unseen), Percent(r.TokenShare),
+				itoa(r.Keys), itoa(r.UnseenKeys), Percent(r.TypeShare)})
 		}
 		s.Tables = append(s.Tables, t)
 	}
@@ -261,12 +261,13 @@ func share(part, whole int64) string {
 	if whole == 0 {
 		return ""
 	}
-	return pct(float64(part) / float64(whole))
+	return Percent(float64(part) / float64(whole))
 }
 
-// pct formats a fraction as a percentage with precision that suits its size:
-// one decimal from 10%, two from 0.1%, three significant digits below.
-func pct(x float64) string {
+// Percent formats a fraction as a percentage with precision that suits its
+// size: one decimal from 10%, two from 0.1%, three significant digits below;
+// "n/a" for NaN or ±Inf.
+func Percent(x float64) string {
 	v := x * 100
 	switch {
 	case math.IsNaN(v) || math.IsInf(v, 0):
@@ -288,7 +289,7 @@ func pct(x float64) string {
 // decimals that it does not round to 100% unless it is 1.
 func pctNearOne(x float64) string {
 	if x >= 1 || x < 0.99 {
-		return pct(x)
+		return Percent(x)
 	}
 	gap := (1 - x) * 100
 	d := int(math.Ceil(-math.Log10(gap))) + 1
@@ -358,15 +359,15 @@ func (f *Figures) fieldSection() section {
 		Num:  []bool{false, true, true, true, true, true, true, false, true}}
 	times := Table{Caption: "times", Head: []string{"field", "first", "last", "zone"}, Num: []bool{false, false, false, false}}
 	for _, x := range f.Fields {
-		all.Rows = append(all.Rows, []string{x.Name, x.Kind, itoa(x.Docs), itoa(x.Missing), pct(x.MissingShare)})
+		all.Rows = append(all.Rows, []string{x.Name, x.Kind, itoa(x.Docs), itoa(x.Missing), Percent(x.MissingShare)})
 		if c := x.Category; c != nil {
-			cats.Rows = append(cats.Rows, []string{x.Name, itoa(c.Levels), itoa(c.LevelsSeen), itoa(c.Other), pct(c.OtherShare),
-				itoa(c.Unseen), pct(c.UnseenShare)})
+			cats.Rows = append(cats.Rows, []string{x.Name, itoa(c.Levels), itoa(c.LevelsSeen), itoa(c.Other), Percent(c.OtherShare),
+				itoa(c.Unseen), Percent(c.UnseenShare)})
 		}
 		if n := x.Number; n != nil {
 			nums.Rows = append(nums.Rows, []string{x.Name, sig(n.Mean), sig(n.FrozenMean), sig(n.SD), sig(n.FrozenSD),
 				sig(n.Min), sig(n.Max), sig(n.FrozenMin) + ".." + sig(n.FrozenMax),
-				join(itoa(n.OutOfRange), pct(n.OutOfRangeShare))})
+				join(itoa(n.OutOfRange), Percent(n.OutOfRangeShare))})
 		}
 		if t := x.Time; t != nil {
 			times.Rows = append(times.Rows, []string{x.Name, t.First, t.Last, t.Zone})
