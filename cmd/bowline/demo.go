@@ -14,24 +14,25 @@ import (
 
 	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/cli"
 )
 
 func runDemo(args []string, stdout, stderr io.Writer) error {
 	c := newCommand("demo", "[--dir DIR]", "Runs learn and encode on the invented Pellwick Bike Share corpus, writes every output into DIR,\nand trains and tests liblinear on the rows when liblinear-train is installed.")
 	var dir string
 	var docs int
-	c.fs.StringVar(&dir, "dir", "bowline-demo", "folder for the demo's files")
-	c.fs.IntVar(&docs, "docs", demo.DefaultOptions().Docs, "documents to generate")
+	c.Flags.StringVar(&dir, "dir", "bowline-demo", "folder for the demo's files")
+	c.Flags.IntVar(&docs, "docs", demo.DefaultOptions().Docs, "documents to generate")
 	var rf runFlags
-	rf.register(c.fs)
+	rf.register(c.Flags)
 	if err := c.parse(args); err != nil {
 		return err
 	}
-	if len(c.pos) != 0 {
-		return usagef("bowline demo takes no file arguments")
+	if len(c.Args) != 0 {
+		return cli.Usagef("bowline demo takes no file arguments")
 	}
 	if docs < 10 {
-		return usagef("--docs: %d is too few (at least 10)", docs)
+		return cli.Usagef("--docs: %d is too few (at least 10)", docs)
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return &ioError{err}

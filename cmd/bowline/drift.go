@@ -7,6 +7,7 @@ import (
 	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/drift"
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 )
@@ -17,28 +18,28 @@ func init() {
 
 func runDrift(args []string, stdout, stderr io.Writer) error {
 	c := newCommand("drift", "--spec SPEC CORPUS [flags]", "Compares a new corpus with a spec: OOV shares per n-gram order, the top unseen keys, the keys whose\ndocument share moved most, a divergence per order (Jensen–Shannon and PSI) and the label shift.\nThe figures go to standard output.")
-	var in inputFlags
+	var in cli.InputFlags
 	var rf runFlags
 	var specPath, reportPath string
 	var top int
-	in.register(c.fs)
-	rf.register(c.fs)
+	in.Register(c.Flags)
+	rf.register(c.Flags)
 	var ef errorFlags
-	ef.register(c.fs)
-	c.fs.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
-	c.fs.IntVar(&top, "top", drift.DefaultTop, "how many unseen and moved keys to list")
-	c.fs.StringVar(&reportPath, "report", "", "also write the figures to FILE.json or FILE.html")
+	ef.register(c.Flags)
+	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	c.Flags.IntVar(&top, "top", drift.DefaultTop, "how many unseen and moved keys to list")
+	c.Flags.StringVar(&reportPath, "report", "", "also write the figures to FILE.json or FILE.html")
 	if err := c.parse(args); err != nil {
 		return err
 	}
 	if specPath == "" {
-		return usagef("bowline drift needs --spec SPEC, written by bowline learn")
+		return cli.Usagef("bowline drift needs --spec SPEC, written by bowline learn")
 	}
-	if len(c.pos) != 1 {
-		return usagef("bowline drift needs one corpus file (got %d); see bowline drift --help", len(c.pos))
+	if len(c.Args) != 1 {
+		return cli.Usagef("bowline drift needs one corpus file (got %d); see bowline drift --help", len(c.Args))
 	}
 	if top < 1 {
-		return usagef("--top: %d is not a positive number", top)
+		return cli.Usagef("--top: %d is not a positive number", top)
 	}
 	if err := rf.check(); err != nil {
 		return err
@@ -53,13 +54,13 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	path := c.pos[0]
-	copts, err := in.options(path, &s.Content.Input, c.set)
+	path := c.Args[0]
+	copts, err := in.Options(path, &s.Content.Input, c.Given)
 	if err != nil {
 		return err
 	}
-	if n := len(specInput(copts).Text); n != len(s.Content.Input.Text) {
-		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
+	if n := len(cli.SpecInput(copts).Text); n != len(s.Content.Input.Text) {
+		return cli.Usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}
 	copts.Fields = fieldNames(s.Content.Fields)
 	r, err := corpus.Open(path, copts)
@@ -94,7 +95,7 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 	}
 	format, err := report.FormatFromPath(reportPath)
 	if err != nil {
-		return usagef("--report: %v", err)
+		return cli.Usagef("--report: %v", err)
 	}
 	if err := atomicfile.WriteFile(reportPath, func(w io.Writer) error { return res.Write(w, format) }); err != nil {
 		return &ioError{err}

@@ -8,6 +8,7 @@ import (
 
 	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
@@ -15,24 +16,24 @@ import (
 
 func runEncode(args []string, stdout, stderr io.Writer) error {
 	c := newCommand("encode", "--spec SPEC CORPUS [-o ROWS] [flags]", "Applies a spec to a corpus and writes one SVMlight row per record, in input order.")
-	var in inputFlags
+	var in cli.InputFlags
 	var rf runFlags
 	var of outputFlags
 	var specPath, fallback string
 	var ef errorFlags
-	ef.register(c.fs)
-	in.register(c.fs)
-	rf.register(c.fs)
-	c.fs.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
-	c.fs.StringVar(&of.out, "o", "-", "rows file to write (- is standard output)")
-	c.fs.IntVar(&of.indexBase, "index-base", 1, "index of the first column: 1 or 0")
-	c.fs.BoolVar(&of.withIDs, "with-ids", false, "append \"# id\" to every row")
-	c.fs.StringVar(&of.featureMap, "feature-map", "", "also write the feature map to FILE")
-	c.fs.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
+	ef.register(c.Flags)
+	in.Register(c.Flags)
+	rf.register(c.Flags)
+	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	c.Flags.StringVar(&of.out, "o", "-", "rows file to write (- is standard output)")
+	c.Flags.IntVar(&of.indexBase, "index-base", 1, "index of the first column: 1 or 0")
+	c.Flags.BoolVar(&of.withIDs, "with-ids", false, "append \"# id\" to every row")
+	c.Flags.StringVar(&of.featureMap, "feature-map", "", "also write the feature map to FILE")
+	c.Flags.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
 	var explainN int
 	var explainOut string
-	c.fs.IntVar(&explainN, "explain-buckets", 0, "hashing mode: name the keys of the N most crowded buckets")
-	c.fs.StringVar(&explainOut, "explain-out", "", "with --explain-buckets: also write column, keys in bucket and key to FILE")
+	c.Flags.IntVar(&explainN, "explain-buckets", 0, "hashing mode: name the keys of the N most crowded buckets")
+	c.Flags.StringVar(&explainOut, "explain-out", "", "with --explain-buckets: also write column, keys in bucket and key to FILE")
 	of.registerReport(c)
 	if err := refuseLearnFlags(c, args, specPath); err != nil {
 		return err
@@ -41,10 +42,10 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if specPath == "" {
-		return usagef("bowline encode needs --spec SPEC, written by bowline learn")
+		return cli.Usagef("bowline encode needs --spec SPEC, written by bowline learn")
 	}
-	if len(c.pos) != 1 {
-		return usagef("bowline encode needs one corpus file (got %d); see bowline encode --help", len(c.pos))
+	if len(c.Args) != 1 {
+		return cli.Usagef("bowline encode needs one corpus file (got %d); see bowline encode --help", len(c.Args))
 	}
 	if err := rf.check(); err != nil {
 		return err
@@ -58,7 +59,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if err := ef.check(); err != nil {
 		return err
 	}
-	fb, err := parseFloatFlag("label-fallback", fallback)
+	fb, err := cli.ParseFloat("label-fallback", fallback)
 	if err != nil {
 		return err
 	}
@@ -67,34 +68,34 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if explainN < 0 {
-		return usagef("--explain-buckets: %d is negative", explainN)
+		return cli.Usagef("--explain-buckets: %d is negative", explainN)
 	}
 	if explainN > 0 && s.Content.Hashing == nil {
-		return usagef("--explain-buckets: the spec is in vocabulary mode, where every key has its own column")
+		return cli.Usagef("--explain-buckets: the spec is in vocabulary mode, where every key has its own column")
 	}
 	if explainOut != "" && explainN == 0 {
-		return usagef("--explain-out needs --explain-buckets N")
+		return cli.Usagef("--explain-out needs --explain-buckets N")
 	}
-	if explainN > 0 && len(c.pos) == 1 && c.pos[0] == "-" {
-		return usagef("--explain-buckets reads the corpus a second time, so it needs a file, not standard input")
+	if explainN > 0 && len(c.Args) == 1 && c.Args[0] == "-" {
+		return cli.Usagef("--explain-buckets reads the corpus a second time, so it needs a file, not standard input")
 	}
 	if of.featureMap != "" && s.Content.Vocabulary == nil {
-		return usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
+		return cli.Usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
 	}
 	enc, err := spec.NewEncoder(s)
 	if err != nil {
 		return &spec.LoadError{File: specPath, Reason: "invalid", Err: err}
 	}
-	path := c.pos[0]
-	copts, err := in.options(path, &s.Content.Input, c.set)
+	path := c.Args[0]
+	copts, err := in.Options(path, &s.Content.Input, c.Given)
 	if err != nil {
 		return err
 	}
 	if of.withIDs && copts.ID == "" {
-		return usagef("--with-ids needs an id field: the spec was learned without --id; give --id NAME")
+		return cli.Usagef("--with-ids needs an id field: the spec was learned without --id; give --id NAME")
 	}
-	if n := len(specInput(copts).Text); n != len(s.Content.Input.Text) {
-		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
+	if n := len(cli.SpecInput(copts).Text); n != len(s.Content.Input.Text) {
+		return cli.Usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}
 	copts.Fields = fieldNames(s.Content.Fields)
 	r, err := openCorpus(path, copts)

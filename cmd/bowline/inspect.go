@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 )
@@ -17,19 +18,19 @@ func runInspect(args []string, stdout, stderr io.Writer) error {
 	var top int
 	var fmap string
 	var asJSON bool
-	c.fs.IntVar(&top, "top", 20, "how many top terms to list")
-	c.fs.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
-	c.fs.BoolVar(&asJSON, "json", false, "print the description as JSON (stable field names) instead of text")
+	c.Flags.IntVar(&top, "top", 20, "how many top terms to list")
+	c.Flags.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.Flags.BoolVar(&asJSON, "json", false, "print the description as JSON (stable field names) instead of text")
 	if err := c.parse(args); err != nil {
 		return err
 	}
-	if len(c.pos) != 1 {
-		return usagef("bowline inspect needs one spec file")
+	if len(c.Args) != 1 {
+		return cli.Usagef("bowline inspect needs one spec file")
 	}
 	if top < 0 {
-		return usagef("--top: %d is negative", top)
+		return cli.Usagef("--top: %d is negative", top)
 	}
-	s, err := spec.Load(c.pos[0])
+	s, err := spec.Load(c.Args[0])
 	if err != nil {
 		return err
 	}

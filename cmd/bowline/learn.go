@@ -9,6 +9,7 @@ import (
 
 	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
@@ -24,36 +25,37 @@ type outputFlags struct {
 }
 
 func (f *outputFlags) registerReport(c *command) {
-	c.fs.StringVar(&f.report, "report", "", "also write the run's figures to FILE.json or FILE.html")
+	c.Flags.StringVar(&f.report, "report", "", "also write the run's figures to FILE.json or FILE.html")
 }
 
 func runLearn(args []string, stdout, stderr io.Writer) error {
 	c := newCommand("learn", "CORPUS -o SPEC.json [flags]", "Reads a training corpus, counts its features, applies the cutoffs and writes a spec.")
-	var in inputFlags
-	var an analysisFlags
+	var in cli.InputFlags
+	var an cli.AnalysisFlags
 	var rf runFlags
 	var of outputFlags
-	in.register(c.fs)
-	an.register(c.fs)
-	rf.register(c.fs)
+	in.Register(c.Flags)
+	an.Register(c.Flags)
+	an.RegisterTable(c.Flags)
+	rf.register(c.Flags)
 	var ef errorFlags
-	ef.register(c.fs)
-	c.fs.StringVar(&of.out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
-	c.fs.StringVar(&of.featureMap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	ef.register(c.Flags)
+	c.Flags.StringVar(&of.out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	c.Flags.StringVar(&of.featureMap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
 	of.registerReport(c)
 	var lf lifecycleFlags
 	lf.register(c)
 	if err := c.parse(args); err != nil {
 		return err
 	}
-	if len(c.pos) != 1 {
-		return usagef("bowline learn needs one corpus file (got %d); see bowline learn --help", len(c.pos))
+	if len(c.Args) != 1 {
+		return cli.Usagef("bowline learn needs one corpus file (got %d); see bowline learn --help", len(c.Args))
 	}
-	if err := lf.check(c.set, &of); err != nil {
+	if err := lf.check(c.Given, &of); err != nil {
 		return err
 	}
 	if lf.countsOut == "" && (of.out == "" || of.out == "-") {
-		return usagef("bowline learn needs -o SPEC.json, the spec file to write")
+		return cli.Usagef("bowline learn needs -o SPEC.json, the spec file to write")
 	}
 	if err := rf.check(); err != nil {
 		return err
@@ -64,7 +66,7 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	if err := checkReportPath(of.report); err != nil {
 		return err
 	}
-	path := c.pos[0]
+	path := c.Args[0]
 	var old *spec.Spec
 	var oldInput *spec.Input
 	var err error
@@ -74,54 +76,54 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		}
 		oldInput = &old.Content.Input
 	}
-	copts, err := in.options(path, oldInput, c.set)
+	copts, err := in.Options(path, oldInput, c.Given)
 	if err != nil {
 		return err
 	}
-	st, err := an.settings(specInput(copts), c.set)
+	st, err := an.Settings(cli.SpecInput(copts), c.Given)
 	if err != nil {
 		return err
 	}
 	if len(st.Fields) > 0 {
 		switch {
 		case copts.Format == corpus.Lines:
-			return usagef("--%s: the lines format has no fields besides the text; use tsv, csv or jsonl", st.Fields[0].Kind)
+			return cli.Usagef("--%s: the lines format has no fields besides the text; use tsv, csv or jsonl", st.Fields[0].Kind)
 		case lf.countsOut != "":
-			return usagef("--%s does not go with --counts-out: count shards hold text counts; learn table fields in one pass", st.Fields[0].Kind)
+			return cli.Usagef("--%s does not go with --counts-out: count shards hold text counts; learn table fields in one pass", st.Fields[0].Kind)
 		case old != nil:
-			return usagef("--%s does not go with --extend: table-field columns follow the vocabulary, where appended keys would go", st.Fields[0].Kind)
+			return cli.Usagef("--%s does not go with --extend: table-field columns follow the vocabulary, where appended keys would go", st.Fields[0].Kind)
 		}
 		copts.Fields = fieldNames(st.Fields)
 	}
 	if st.Mode == spec.ModeHashing && of.featureMap != "" {
-		return usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
+		return cli.Usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
 	}
 	var learner *spec.Learner
 	if old != nil {
-		if err := checkExtendFlags(old, lf.extend, st, c.set); err != nil {
+		if err := checkExtendFlags(old, lf.extend, st, c.Given); err != nil {
 			return err
 		}
 		// Cutoffs not given anew are the old spec's.
 		cut, ov := st.Cutoffs, old.Content.Vocabulary
-		if ov != nil && !c.set["min-docs"] {
+		if ov != nil && !c.Given["min-docs"] {
 			cut.MinDocs = ov.MinDocs
 		}
-		if ov != nil && !c.set["max-doc-share"] {
+		if ov != nil && !c.Given["max-doc-share"] {
 			cut.MaxDocShare = ov.MaxDocShare
 		}
-		if ov != nil && !c.set["max-terms"] {
+		if ov != nil && !c.Given["max-terms"] {
 			cut.MaxTerms = ov.MaxTerms
 		}
-		learner, err = spec.NewExtendLearner(old, cut, specInput(copts))
+		learner, err = spec.NewExtendLearner(old, cut, cli.SpecInput(copts))
 		if err != nil {
-			return usagef("--extend %s: %v", lf.extend, err)
+			return cli.Usagef("--extend %s: %v", lf.extend, err)
 		}
 	} else if learner, err = spec.NewLearner(st); err != nil {
-		return usagef("%v", err)
+		return cli.Usagef("%v", err)
 	}
 	if lf.limit > 0 {
 		if learner.Content().Mode != spec.ModeVocabulary {
-			return usagef("--memory-limit: hashing mode keeps no per-key counts (its memory is set by --hash); the limit applies to vocabulary mode")
+			return cli.Usagef("--memory-limit: hashing mode keeps no per-key counts (its memory is set by --hash); the limit applies to vocabulary mode")
 		}
 		rss, nonGo := processMemory()
 		capacity, workers := pipeline.KeyCapacity(lf.limit, rf.workers)
@@ -130,7 +132,7 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 			for c, _ := pipeline.KeyCapacity(least<<20, 1); c < 4096; c, _ = pipeline.KeyCapacity(least<<20, 1) {
 				least++
 			}
-			return usagef("--memory-limit %s leaves too little room for counting keys: bowline holds %.0f MiB before counting, and a worker needs about 7 MiB; give at least %dMiB", lf.memoryLimit, float64(max(rss, pipeline.NonHeapBytes))/(1<<20), least)
+			return cli.Usagef("--memory-limit %s leaves too little room for counting keys: bowline holds %.0f MiB before counting, and a worker needs about 7 MiB; give at least %dMiB", lf.memoryLimit, float64(max(rss, pipeline.NonHeapBytes))/(1<<20), least)
 		}
 		learner.LimitKeys(capacity)
 		rf.workers = workers
@@ -208,9 +210,9 @@ type lifecycleFlags struct {
 }
 
 func (f *lifecycleFlags) register(c *command) {
-	c.fs.StringVar(&f.extend, "extend", "", "refresh OLD_SPEC: keep its settings and every column at its index, append new keys")
-	c.fs.StringVar(&f.memoryLimit, "memory-limit", "", "count within SIZE of memory (512MiB, 2GB, 100M), pruning the rarest keys past it")
-	c.fs.StringVar(&f.countsOut, "counts-out", "", "write the exact counts, before cutoffs, to FILE (a count shard for bowline merge) instead of a spec")
+	c.Flags.StringVar(&f.extend, "extend", "", "refresh OLD_SPEC: keep its settings and every column at its index, append new keys")
+	c.Flags.StringVar(&f.memoryLimit, "memory-limit", "", "count within SIZE of memory (512MiB, 2GB, 100M), pruning the rarest keys past it")
+	c.Flags.StringVar(&f.countsOut, "counts-out", "", "write the exact counts, before cutoffs, to FILE (a count shard for bowline merge) instead of a spec")
 }
 
 // minMemoryLimit is the smallest --memory-limit accepted.
@@ -220,10 +222,10 @@ func (f *lifecycleFlags) check(set map[string]bool, of *outputFlags) error {
 	if f.memoryLimit != "" {
 		n, err := parseSize(f.memoryLimit)
 		if err != nil {
-			return usagef("--memory-limit: %v", err)
+			return cli.Usagef("--memory-limit: %v", err)
 		}
 		if n < minMemoryLimit {
-			return usagef("--memory-limit: %s is below the smallest limit, 16MiB", f.memoryLimit)
+			return cli.Usagef("--memory-limit: %s is below the smallest limit, 16MiB", f.memoryLimit)
 		}
 		f.limit = n
 	}
@@ -241,11 +243,11 @@ func (f *lifecycleFlags) check(set map[string]bool, of *outputFlags) error {
 				"feature-map":   "a shard has no columns yet; bowline merge writes the feature map",
 				"o":             "--counts-out writes a count shard instead of a spec",
 			}[other]
-			return usagef("--%s does not go with --counts-out: %s", other, why)
+			return cli.Usagef("--%s does not go with --counts-out: %s", other, why)
 		}
 	}
 	if set["hash"] {
-		return usagef("--counts-out: count shards hold vocabulary counts; hashing mode has none")
+		return cli.Usagef("--counts-out: count shards hold vocabulary counts; hashing mode has none")
 	}
 	return nil
 }
@@ -255,7 +257,7 @@ func checkReportPath(p string) error {
 		return nil
 	}
 	if _, err := report.FormatFromPath(p); err != nil {
-		return usagef("--report: %v", err)
+		return cli.Usagef("--report: %v", err)
 	}
 	return nil
 }
@@ -266,7 +268,7 @@ func writeReport(path string, fig *report.Figures) error {
 	}
 	format, err := report.FormatFromPath(path)
 	if err != nil {
-		return usagef("--report: %v", err)
+		return cli.Usagef("--report: %v", err)
 	}
 	if err := atomicfile.WriteFile(path, func(w io.Writer) error { return report.Write(w, format, fig) }); err != nil {
 		return &ioError{err}
@@ -277,7 +279,7 @@ func writeReport(path string, fig *report.Figures) error {
 func writeFeatureMap(path string, s *spec.Spec, base int) error {
 	v := s.Content.Vocabulary
 	if v == nil {
-		return usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
+		return cli.Usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
 	}
 	entries := make([]svmlight.MapEntry, len(v.Keys))
 	for i, k := range v.Keys {

@@ -20,6 +20,7 @@ import (
 
 	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
@@ -158,7 +159,7 @@ func exitCode(err error, stderr io.Writer) int {
 		return exitOK // a closed stdout pipe ends quietly
 	}
 	fmt.Fprintf(stderr, "bowline: %v\n", err)
-	var u *usageError
+	var u *cli.UsageError
 	var pe *corpus.ParseError
 	var re *pipeline.RecordError
 	var le *spec.LoadError

@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 )
@@ -25,15 +26,15 @@ type cutoffFlags struct {
 }
 
 func (f *cutoffFlags) register(c *command) {
-	c.fs.Int64Var(&f.minDocs, "min-docs", 1, "keep keys seen in at least N documents")
-	c.fs.Float64Var(&f.maxDocShare, "max-doc-share", 1.0, "drop keys in more than this share of documents")
-	c.fs.IntVar(&f.maxTerms, "max-terms", 0, "keep at most K keys, by document count (0: no limit)")
+	c.Flags.Int64Var(&f.minDocs, "min-docs", 1, "keep keys seen in at least N documents")
+	c.Flags.Float64Var(&f.maxDocShare, "max-doc-share", 1.0, "drop keys in more than this share of documents")
+	c.Flags.IntVar(&f.maxTerms, "max-terms", 0, "keep at most K keys, by document count (0: no limit)")
 }
 
 func (f *cutoffFlags) cutoffs() (vocab.Cutoffs, error) {
 	cut := vocab.Cutoffs{MinDocs: f.minDocs, MaxDocShare: f.maxDocShare, MaxTerms: f.maxTerms}
 	if err := cut.Validate(); err != nil {
-		return cut, usagef("%v", err)
+		return cut, cli.Usagef("%v", err)
 	}
 	return cut, nil
 }
@@ -43,22 +44,22 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	var cf cutoffFlags
 	var out, fmap string
 	cf.register(c)
-	c.fs.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
-	c.fs.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.Flags.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	c.Flags.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
 	if err := c.parse(args); err != nil {
 		return err
 	}
-	if len(c.pos) == 0 {
-		return usagef("bowline merge needs one or more count shards (written by bowline learn --counts-out)")
+	if len(c.Args) == 0 {
+		return cli.Usagef("bowline merge needs one or more count shards (written by bowline learn --counts-out)")
 	}
 	if out == "" || out == "-" {
-		return usagef("bowline merge needs -o SPEC.json, the spec file to write")
+		return cli.Usagef("bowline merge needs -o SPEC.json, the spec file to write")
 	}
 	cut, err := cf.cutoffs()
 	if err != nil {
 		return err
 	}
-	sh, err := spec.MergeShards(c.pos)
+	sh, err := spec.MergeShards(c.Args)
 	if err != nil {
 		return err
 	}
@@ -74,7 +75,7 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 			return err
 		}
 	}
-	fmt.Fprintf(stderr, "merged %d count shard(s): %d documents, %d distinct keys\n", len(c.pos), sh.Counts.Docs(), rep.Seen)
+	fmt.Fprintf(stderr, "merged %d count shard(s): %d documents, %d distinct keys\n", len(c.Args), sh.Counts.Docs(), rep.Seen)
 	fmt.Fprintf(stderr, "cutoffs      below min-docs %d, above max-doc-share %d, over max-terms %d; kept %d\n", rep.BelowMinDocs, rep.AboveMaxShare, rep.OverMaxTerms, rep.Kept)
 	fmt.Fprintf(stderr, "\nspec %s written to %s\n", s.ShortFingerprint(), out)
 	return nil
@@ -126,12 +127,12 @@ var extendFlagFields = []struct{ flag, field string }{
 func checkExtendFlags(old *spec.Spec, oldPath string, st *spec.Settings, set map[string]bool) error {
 	for _, f := range []string{"hash", "seed", "signed"} {
 		if set[f] {
-			return usagef("--%s: --extend keeps the vocabulary mode of %s; hashing specs cannot be extended", f, oldPath)
+			return cli.Usagef("--%s: --extend keeps the vocabulary mode of %s; hashing specs cannot be extended", f, oldPath)
 		}
 	}
 	nc, err := st.Content()
 	if err != nil {
-		return usagef("%v", err)
+		return cli.Usagef("%v", err)
 	}
 	oldF := spec.SettingsFields(&old.Content, false)
 	newF := spec.SettingsFields(&nc, false)
@@ -141,7 +142,7 @@ func checkExtendFlags(old *spec.Spec, oldPath string, st *spec.Settings, set map
 		}
 		for i := range oldF {
 			if oldF[i].Name == ef.field && oldF[i].Value != newF[i].Value {
-				return usagef("--%s: %s was learned with %s %s, the flag asks for %s; --extend keeps every analysis setting of the spec it extends (leave the flag out, or learn a new spec)", ef.flag, oldPath, ef.field, oldF[i].Value, newF[i].Value)
+				return cli.Usagef("--%s: %s was learned with %s %s, the flag asks for %s; --extend keeps every analysis setting of the spec it extends (leave the flag out, or learn a new spec)", ef.flag, oldPath, ef.field, oldF[i].Value, newF[i].Value)
 			}
 		}
 	}

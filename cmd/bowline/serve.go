@@ -14,6 +14,7 @@ import (
 	"syscall"
 	"time"
 
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/serve"
 )
 
@@ -38,38 +39,38 @@ func runServe(args []string, stdout, stderr io.Writer) error {
 	var maxDocs int
 	t := serve.DefaultTimeouts
 	var grace time.Duration
-	c.fs.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
-	c.fs.StringVar(&addr, "addr", "127.0.0.1:8080", "address to listen on; the default answers this machine only")
-	c.fs.Int64Var(&maxBody, "max-body", serve.DefaultMaxBody, "largest request body, in bytes")
-	c.fs.IntVar(&maxDocs, "max-docs", serve.DefaultMaxDocuments, "most documents in one request")
-	c.fs.DurationVar(&t.Read, "read-timeout", t.Read, "longest time to read one request")
-	c.fs.DurationVar(&t.Write, "write-timeout", t.Write, "longest time from a request's headers to the end of its answer")
-	c.fs.DurationVar(&t.Idle, "idle-timeout", t.Idle, "longest wait for the next request on an open connection")
-	c.fs.DurationVar(&grace, "shutdown-timeout", 30*time.Second, "longest wait for requests in flight when stopping")
-	c.fs.StringVar(&logLevel, "log-level", "info", "log level debug|info|warn|error (debug logs every request)")
+	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	c.Flags.StringVar(&addr, "addr", "127.0.0.1:8080", "address to listen on; the default answers this machine only")
+	c.Flags.Int64Var(&maxBody, "max-body", serve.DefaultMaxBody, "largest request body, in bytes")
+	c.Flags.IntVar(&maxDocs, "max-docs", serve.DefaultMaxDocuments, "most documents in one request")
+	c.Flags.DurationVar(&t.Read, "read-timeout", t.Read, "longest time to read one request")
+	c.Flags.DurationVar(&t.Write, "write-timeout", t.Write, "longest time from a request's headers to the end of its answer")
+	c.Flags.DurationVar(&t.Idle, "idle-timeout", t.Idle, "longest wait for the next request on an open connection")
+	c.Flags.DurationVar(&grace, "shutdown-timeout", 30*time.Second, "longest wait for requests in flight when stopping")
+	c.Flags.StringVar(&logLevel, "log-level", "info", "log level debug|info|warn|error (debug logs every request)")
 	if err := c.parse(args); err != nil {
 		return err
 	}
 	if specPath == "" {
-		return usagef("bowline serve needs --spec SPEC, written by bowline learn")
+		return cli.Usagef("bowline serve needs --spec SPEC, written by bowline learn")
 	}
-	if len(c.pos) != 0 {
-		return usagef("bowline serve takes no file arguments (got %s); give the spec with --spec", strings.Join(c.pos, " "))
+	if len(c.Args) != 0 {
+		return cli.Usagef("bowline serve takes no file arguments (got %s); give the spec with --spec", strings.Join(c.Args, " "))
 	}
 	if maxBody < 1 {
-		return usagef("--max-body: %d is not a positive number of bytes", maxBody)
+		return cli.Usagef("--max-body: %d is not a positive number of bytes", maxBody)
 	}
 	if maxDocs < 1 {
-		return usagef("--max-docs: %d is not a positive number", maxDocs)
+		return cli.Usagef("--max-docs: %d is not a positive number", maxDocs)
 	}
 	for name, d := range map[string]time.Duration{"read-timeout": t.Read, "write-timeout": t.Write, "idle-timeout": t.Idle, "shutdown-timeout": grace} {
 		if d <= 0 {
-			return usagef("--%s: %v is not a positive duration", name, d)
+			return cli.Usagef("--%s: %v is not a positive duration", name, d)
 		}
 	}
 	var level slog.Level
 	if err := level.UnmarshalText([]byte(logLevel)); err != nil {
-		return usagef("--log-level: %q is not one of debug, info, warn, error", logLevel)
+		return cli.Usagef("--log-level: %q is not one of debug, info, warn, error", logLevel)
 	}
 	log := slog.New(slog.NewJSONHandler(stderr, &slog.HandlerOptions{Level: level}))
 

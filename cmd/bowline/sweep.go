@@ -10,6 +10,7 @@ import (
 	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/sweep"
 )
@@ -25,31 +26,32 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 			"an L2-regularized logistic regression trained on each width's rows and on the vocabulary's.\n"+
 			"--widths takes a range A..B (doubling; A..B*F multiplies by F) or a list 2^12,2^16,100000.\n"+
 			"--explain-buckets N lists the keys sharing the N most crowded buckets at --explain-width (default: the widest).")
-	var in inputFlags
-	var an analysisFlags
+	var in cli.InputFlags
+	var an cli.AnalysisFlags
 	var rf runFlags
 	var holdout, widths, report, explainWidth string
 	var cval float64
 	var explainN int
-	in.register(c.fs)
-	an.register(c.fs)
-	rf.register(c.fs)
+	in.Register(c.Flags)
+	an.Register(c.Flags)
+	an.RegisterTable(c.Flags)
+	rf.register(c.Flags)
 	var ef errorFlags
-	ef.register(c.fs)
-	c.fs.StringVar(&holdout, "holdout", "", "held-out corpus (same format and fields) for accuracy figures")
-	c.fs.StringVar(&widths, "widths", "2^10..2^24", "hashing widths: range A..B (step ×2) or list A,B,C")
-	c.fs.Float64Var(&cval, "c", 1, "regularization C of the logistic regression (as liblinear's -c)")
-	c.fs.IntVar(&explainN, "explain-buckets", 0, "list the keys of the N most crowded buckets")
-	c.fs.StringVar(&explainWidth, "explain-width", "", "width for --explain-buckets (default: the widest)")
-	c.fs.StringVar(&report, "report", "", "also write the sweep to FILE.json or FILE.html")
+	ef.register(c.Flags)
+	c.Flags.StringVar(&holdout, "holdout", "", "held-out corpus (same format and fields) for accuracy figures")
+	c.Flags.StringVar(&widths, "widths", "2^10..2^24", "hashing widths: range A..B (step ×2) or list A,B,C")
+	c.Flags.Float64Var(&cval, "c", 1, "regularization C of the logistic regression (as liblinear's -c)")
+	c.Flags.IntVar(&explainN, "explain-buckets", 0, "list the keys of the N most crowded buckets")
+	c.Flags.StringVar(&explainWidth, "explain-width", "", "width for --explain-buckets (default: the widest)")
+	c.Flags.StringVar(&report, "report", "", "also write the sweep to FILE.json or FILE.html")
 	if err := c.parse(args); err != nil {
 		return err
 	}
-	if len(c.pos) != 1 {
-		return usagef("bowline sweep needs one training corpus file (got %d); see bowline sweep --help", len(c.pos))
+	if len(c.Args) != 1 {
+		return cli.Usagef("bowline sweep needs one training corpus file (got %d); see bowline sweep --help", len(c.Args))
 	}
-	if c.set["hash"] {
-		return usagef("--hash: sweep measures many widths; give them with --widths")
+	if c.Given["hash"] {
+		return cli.Usagef("--hash: sweep measures many widths; give them with --widths")
 	}
 	if err := rf.check(); err != nil {
 		return err
@@ -59,21 +61,21 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	}
 	ws, err := sweep.ParseWidths(widths)
 	if err != nil {
-		return usagef("--widths: %v", err)
+		return cli.Usagef("--widths: %v", err)
 	}
 	if !(cval > 0) {
-		return usagef("--c: %v is not a positive number", cval)
+		return cli.Usagef("--c: %v is not a positive number", cval)
 	}
 	if explainN < 0 {
-		return usagef("--explain-buckets: %d is negative", explainN)
+		return cli.Usagef("--explain-buckets: %d is negative", explainN)
 	}
 	var ew uint64
 	if explainWidth != "" {
 		if explainN == 0 {
-			return usagef("--explain-width needs --explain-buckets N")
+			return cli.Usagef("--explain-width needs --explain-buckets N")
 		}
 		if ew, err = hashing.ParseWidth(explainWidth); err != nil {
-			return usagef("--explain-width: %v", err)
+			return cli.Usagef("--explain-width: %v", err)
 		}
 	}
 	format := ""
@@ -84,11 +86,11 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		case ".html", ".htm":
 			format = "html"
 		default:
-			return usagef("--report: %q does not end in .json or .html", report)
+			return cli.Usagef("--report: %q does not end in .json or .html", report)
 		}
 	}
-	path := c.pos[0]
-	copts, err := in.options(path, nil, c.set)
+	path := c.Args[0]
+	copts, err := in.Options(path, nil, c.Given)
 	if err != nil {
 		return err
 	}
@@ -96,17 +98,17 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	// apply to every width, so they are taken before the vocabulary
 	// settings are checked.
 	set := map[string]bool{}
-	for k, v := range c.set {
+	for k, v := range c.Given {
 		if k != "seed" && k != "signed" {
 			set[k] = v
 		}
 	}
-	st, err := an.settings(spec.Input{Format: copts.Format.String(), Text: copts.Text, Label: copts.Label, ID: copts.ID, NoHeader: copts.NoHeader}, set)
+	st, err := an.Settings(spec.Input{Format: copts.Format.String(), Text: copts.Text, Label: copts.Label, ID: copts.ID, NoHeader: copts.NoHeader}, set)
 	if err != nil {
 		return err
 	}
 	if holdout != "" && copts.Label == "" {
-		return usagef("--holdout needs --label: accuracy is measured against the labels")
+		return cli.Usagef("--holdout needs --label: accuracy is measured against the labels")
 	}
 	start := time.Now()
 	r, err := corpus.Open(path, copts)
@@ -125,7 +127,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	}
 	var hr *corpus.Reader
 	if holdout != "" {
-		hopts, err := in.options(holdout, nil, c.set)
+		hopts, err := in.Options(holdout, nil, c.Given)
 		if err != nil {
 			return err
 		}
@@ -134,7 +136,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		}
 		defer hr.Close()
 	}
-	res, err := sweep.Run(r, path, hr, holdout, sweep.Options{Settings: st, Widths: ws, Seed: an.seed, Signed: an.signed,
+	res, err := sweep.Run(r, path, hr, holdout, sweep.Options{Settings: st, Widths: ws, Seed: an.Seed, Signed: an.Signed,
 		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew, Reject: reject})
 	if err != nil {
 		return err

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/sweep"
 )
 
@@ -106,7 +107,7 @@ func TestSweepUsage(t *testing.T) {
 	} {
 		var out, errb bytes.Buffer
 		err := runSweep(args, &out, &errb)
-		var u *usageError
+		var u *cli.UsageError
 		if !errors.As(err, &u) {
 			t.Errorf("sweep %v: error %v, want a usage error", args, err)
 		}

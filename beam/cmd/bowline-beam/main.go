@@ -19,7 +19,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"sort"
 	"strings"
 
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
@@ -29,6 +28,7 @@ import (
 
 	bowlinebeam "github.com/bowline/bowline/beam"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/spec"
 )
 
@@ -76,14 +76,14 @@ func run(ctx context.Context, args []string, stderr io.Writer) int {
 		usage(stderr)
 		return exitOK
 	default:
-		err = usagef("unknown command %q", args[0])
+		err = cli.Usagef("unknown command %q", args[0])
 	}
 	if errors.Is(err, flag.ErrHelp) {
 		return exitOK
 	}
 	if err != nil {
 		fmt.Fprintf(stderr, "bowline-beam: %v\n", cause(err))
-		var u *usageError
+		var u *cli.UsageError
 		if errors.As(err, &u) {
 			return exitUsage
 		}
@@ -94,36 +94,36 @@ func run(ctx context.Context, args []string, stderr io.Writer) int {
 
 func runLearn(ctx context.Context, args []string, stderr io.Writer) error {
 	c := newCommand("learn", "CORPUS... -o SPEC.json [flags]", "Learns a spec from the corpus files (read as one corpus, in the order given) on a Beam runner.")
-	var in inputFlags
-	var an analysisFlags
+	var in cli.InputFlags
+	var an cli.AnalysisFlags
 	var out string
-	in.register(c.fs)
-	an.register(c.fs)
-	c.fs.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	in.Register(c.Flags)
+	an.Register(c.Flags)
+	c.Flags.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
 	if err := c.parse(args, stderr); err != nil {
 		return err
 	}
-	if len(c.pos) == 0 {
-		return usagef("bowline-beam learn needs at least one corpus file")
+	if len(c.Args) == 0 {
+		return cli.Usagef("bowline-beam learn needs at least one corpus file")
 	}
 	if out == "" || out == "-" {
-		return usagef("bowline-beam learn needs -o SPEC.json, the spec file to write")
+		return cli.Usagef("bowline-beam learn needs -o SPEC.json, the spec file to write")
 	}
-	copts, err := in.options(c.pos, nil, c.set)
+	copts, err := corpusOptions(&in, c.Args, nil, c.Given)
 	if err != nil {
 		return err
 	}
-	st, err := an.settings(specInput(copts), c.set)
+	st, err := an.Settings(cli.SpecInput(copts), c.Given)
 	if err != nil {
 		return err
 	}
-	if err := checkLocal(c.pos, copts); err != nil {
+	if err := checkLocal(c.Args, copts); err != nil {
 		return err
 	}
 	initBeam()
 	p, s := beam.NewPipelineWithRoot()
-	if _, err := bowlinebeam.Learn(s, c.pos, copts, st, out); err != nil {
-		return usagef("%v", err)
+	if _, err := bowlinebeam.Learn(s, c.Args, copts, st, out); err != nil {
+		return cli.Usagef("%v", err)
 	}
 	if err := beamx.Run(ctx, p); err != nil {
 		return err
@@ -146,36 +146,36 @@ func runLearn(ctx context.Context, args []string, stderr io.Writer) error {
 
 func runEncode(ctx context.Context, args []string, stderr io.Writer) error {
 	c := newCommand("encode", "--spec SPEC CORPUS... -o PREFIX [flags]", "Applies a spec to the corpus files on a Beam runner; rows go to shards PREFIX-FFFFF-BBBBBBBB (file and line-block numbers), whose concatenation in name order is the rows in record order.")
-	var in inputFlags
+	var in cli.InputFlags
 	var specPath, out, fallback string
 	var o bowlinebeam.EncodeOptions
-	in.register(c.fs)
-	c.fs.StringVar(&specPath, "spec", "", "spec file written by bowline learn or bowline-beam learn")
-	c.fs.StringVar(&out, "o", "", "prefix of the row shards to write")
-	c.fs.IntVar(&o.Base, "index-base", 1, "index of the first column: 1 or 0")
-	c.fs.BoolVar(&o.WithIDs, "with-ids", false, "append \"# id\" to every row")
-	c.fs.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
-	c.fs.Int64Var(&o.ShardLines, "shard-lines", bowlinebeam.DefaultShardLines, "input lines of one file per row shard")
+	in.Register(c.Flags)
+	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn or bowline-beam learn")
+	c.Flags.StringVar(&out, "o", "", "prefix of the row shards to write")
+	c.Flags.IntVar(&o.Base, "index-base", 1, "index of the first column: 1 or 0")
+	c.Flags.BoolVar(&o.WithIDs, "with-ids", false, "append \"# id\" to every row")
+	c.Flags.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
+	c.Flags.Int64Var(&o.ShardLines, "shard-lines", bowlinebeam.DefaultShardLines, "input lines of one file per row shard")
 	if err := c.parse(args, stderr); err != nil {
 		return err
 	}
 	if specPath == "" {
-		return usagef("bowline-beam encode needs --spec SPEC, written by bowline learn")
+		return cli.Usagef("bowline-beam encode needs --spec SPEC, written by bowline learn")
 	}
-	if len(c.pos) == 0 {
-		return usagef("bowline-beam encode needs at least one corpus file")
+	if len(c.Args) == 0 {
+		return cli.Usagef("bowline-beam encode needs at least one corpus file")
 	}
 	if out == "" || out == "-" {
-		return usagef("bowline-beam encode needs -o PREFIX, the prefix of the row shards")
+		return cli.Usagef("bowline-beam encode needs -o PREFIX, the prefix of the row shards")
 	}
 	if o.Base != 0 && o.Base != 1 {
-		return usagef("--index-base: %d is not 1 or 0", o.Base)
+		return cli.Usagef("--index-base: %d is not 1 or 0", o.Base)
 	}
 	if o.ShardLines < 1 {
-		return usagef("--shard-lines: %d is not a positive number", o.ShardLines)
+		return cli.Usagef("--shard-lines: %d is not a positive number", o.ShardLines)
 	}
 	var err error
-	if o.LabelFallback, err = parseFloatFlag("label-fallback", fallback); err != nil {
+	if o.LabelFallback, err = cli.ParseFloat("label-fallback", fallback); err != nil {
 		return err
 	}
 	o.Out = out
@@ -187,25 +187,25 @@ func runEncode(ctx context.Context, args []string, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	copts, err := in.options(c.pos, &sp.Content.Input, c.set)
+	copts, err := corpusOptions(&in, c.Args, &sp.Content.Input, c.Given)
 	if err != nil {
 		return err
 	}
-	if n := len(specInput(copts).Text); n != len(sp.Content.Input.Text) {
-		return usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(sp.Content.Input.Text), strings.Join(sp.Content.Input.Text, ", "), n)
+	if n := len(cli.SpecInput(copts).Text); n != len(sp.Content.Input.Text) {
+		return cli.Usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(sp.Content.Input.Text), strings.Join(sp.Content.Input.Text, ", "), n)
 	}
-	if err := checkLocal(c.pos, copts); err != nil {
+	if err := checkLocal(c.Args, copts); err != nil {
 		return err
 	}
 	initBeam()
 	p, s := beam.NewPipelineWithRoot()
-	if _, err := bowlinebeam.Encode(s, c.pos, copts, data, o); err != nil {
-		return usagef("%v", err)
+	if _, err := bowlinebeam.Encode(s, c.Args, copts, data, o); err != nil {
+		return cli.Usagef("%v", err)
 	}
 	if err := beamx.Run(ctx, p); err != nil {
 		return err
 	}
-	fmt.Fprintf(stderr, "rows of %d file(s) written to %s-* with spec %s\n", len(c.pos), out, sp.Fingerprint)
+	fmt.Fprintf(stderr, "rows of %d file(s) written to %s-* with spec %s\n", len(c.Args), out, sp.Fingerprint)
 	return nil
 }
 
@@ -235,7 +235,7 @@ func checkLocal(paths []string, o corpus.Options) error {
 			if errors.As(err, &pe) || errors.As(err, &pathErr) {
 				return err
 			}
-			return usagef("%v", err)
+			return cli.Usagef("%v", err)
 		}
 		r.Close()
 	}
@@ -264,76 +264,40 @@ func readAll(ctx context.Context, path string) ([]byte, error) {
 // (registered on flag.CommandLine by the SDK's packages), sharing their
 // values.
 type command struct {
-	name, args, about string
-	fs                *flag.FlagSet
-	pos               []string
-	set               map[string]bool
-	ours              map[string]bool
+	*cli.Command
+	ours map[string]bool // bowline's flags
 }
 
 func newCommand(name, args, about string) *command {
-	c := &command{name: name, args: args, about: about, fs: flag.NewFlagSet(name, flag.ContinueOnError), set: map[string]bool{}}
-	c.fs.SetOutput(io.Discard)
-	return c
+	return &command{Command: cli.NewCommand(name, args, about)}
 }
 
 // parse parses flags and positional arguments in any order; "--" ends
 // flags.
 func (c *command) parse(args []string, stderr io.Writer) error {
 	c.ours = map[string]bool{}
-	c.fs.VisitAll(func(f *flag.Flag) { c.ours[f.Name] = true })
+	c.Flags.VisitAll(func(f *flag.Flag) { c.ours[f.Name] = true })
 	flag.CommandLine.VisitAll(func(f *flag.Flag) {
-		if c.fs.Lookup(f.Name) == nil {
-			c.fs.Var(f.Value, f.Name, f.Usage)
+		if c.Flags.Lookup(f.Name) == nil {
+			c.Flags.Var(f.Value, f.Name, f.Usage)
 		}
 	})
-	for {
-		if err := c.fs.Parse(args); err != nil {
-			if errors.Is(err, flag.ErrHelp) {
-				c.usage(stderr)
-				return flag.ErrHelp
-			}
-			return usagef("bowline-beam %s: %v (see bowline-beam %s --help)", c.name, err, c.name)
+	if err := c.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			c.usage(stderr)
+			return flag.ErrHelp
 		}
-		rest := c.fs.Args()
-		if len(rest) == 0 {
-			break
-		}
-		if len(args) > 0 && len(rest) < len(args) && args[len(args)-len(rest)-1] == "--" {
-			c.pos = append(c.pos, rest...)
-			break
-		}
-		c.pos = append(c.pos, rest[0])
-		args = rest[1:]
+		return cli.Usagef("bowline-beam %s: %v (see bowline-beam %s --help)", c.Name, err, c.Name)
 	}
-	c.fs.Visit(func(f *flag.Flag) { c.set[f.Name] = true })
 	return nil
 }
 
 func (c *command) usage(w io.Writer) {
-	fmt.Fprintf(w, "usage: bowline-beam %s %s\n\n%s\n\nbowline flags:\n", c.name, c.args, c.about)
-	var names []string
-	c.fs.VisitAll(func(f *flag.Flag) {
-		if c.ours[f.Name] {
-			names = append(names, f.Name)
-		}
-	})
-	sort.Strings(names)
-	for _, n := range names {
-		f := c.fs.Lookup(n)
-		dash := "--"
-		if len(n) == 1 {
-			dash = "-"
-		}
-		def := f.DefValue
-		if def == "" {
-			def = "none"
-		}
-		fmt.Fprintf(w, "  %s%-16s %s [%s]\n", dash, n, f.Usage, def)
-	}
+	fmt.Fprintf(w, "usage: bowline-beam %s %s\n\n%s\n\nbowline flags:\n", c.Name, c.Synopsis, c.About)
+	c.PrintFlags(w, func(name string) bool { return c.ours[name] })
 	fmt.Fprintf(w, "\nBeam flags (the SDK's; the common ones):\n")
 	for _, n := range []string{"runner", "endpoint", "environment_type", "environment_config", "job_name", "project", "region", "staging_location", "temp_location", "worker_binary"} {
-		if f := c.fs.Lookup(n); f != nil {
+		if f := c.Flags.Lookup(n); f != nil {
 			fmt.Fprintf(w, "  --%-16s %s\n", n, firstLine(f.Usage))
 		}
 	}
