@@ -387,7 +387,7 @@ func (iv *inspectView) writeText(w io.Writer) {
 		fmt.Fprintln(w, "\ncutoff effects: not recorded in this spec (learned before bowline kept a document-count histogram)")
 	}
 	if p := v.Pruning; p != nil {
-		fmt.Fprintf(w, "\npruned       learned under a memory limit (%s, %d keys at once): %d keys pruned holding %d document counts;\n", p.Method, p.Capacity, p.Evicted, p.EvictedDocs)
+		fmt.Fprintf(w, "\npruned       learned under a memory limit (%s, %d keys at once): %d evictions (a key can be evicted more than once) holding %d document counts;\n", p.Method, p.Capacity, p.Evicted, p.EvictedDocs)
 		fmt.Fprintf(w, "             no pruned key was in more than %d documents; %d kept counts may be up to that much too low\n", p.MaxDocs, p.InexactKeys)
 	}
 	if c := iv.Caution; c != nil {

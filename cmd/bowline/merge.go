@@ -1,6 +1,7 @@
 package main
 
 import (
+	"crypto/sha256"
 	"fmt"
 	"io"
 	"math"
@@ -57,6 +58,9 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	}
 	cut, err := cf.cutoffs()
 	if err != nil {
+		return err
+	}
+	if err := distinctShards(c.Args); err != nil {
 		return err
 	}
 	sh, err := spec.MergeShards(c.Args)
@@ -177,7 +181,7 @@ func describePruning(w io.Writer, limit int64, capacity int, p *spec.Pruning) {
 		fmt.Fprintln(w, "pruned       nothing: every count is exact")
 		return
 	}
-	fmt.Fprintf(w, "pruned       %d keys (space-saving), holding %d document counts and %d occurrences\n", p.Evicted, p.EvictedDocs, p.EvictedCount)
+	fmt.Fprintf(w, "pruned       %d evictions (space-saving; a key can be evicted more than once), holding %d document counts and %d occurrences\n", p.Evicted, p.EvictedDocs, p.EvictedCount)
 	fmt.Fprintf(w, "error bound  no pruned key was in more than %d documents; kept counts are never too high, exact but for\n", p.MaxDocs)
 	fmt.Fprintf(w, "             %d keys, and at most %d too low: every key in --min-docs + %d documents or more is kept\n", p.InexactKeys, p.MaxDocs, p.MaxDocs)
 }
@@ -234,4 +238,22 @@ func peakMemory() int64 {
 		}
 	}
 	return 0
+}
+
+// distinctShards refuses a shard given twice (the same file, or two files
+// with the same bytes): merging it twice would count its documents twice.
+func distinctShards(paths []string) error {
+	seen := map[[32]byte]string{}
+	for _, p := range paths {
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return &ioError{err}
+		}
+		sum := sha256.Sum256(b)
+		if q, dup := seen[sum]; dup {
+			return cli.Usagef("%s and %s are the same shard: merging it twice would count its documents twice", q, p)
+		}
+		seen[sum] = p
+	}
+	return nil
 }
