@@ -91,7 +91,8 @@ func (l *Learner) extend(vv *Vocabulary, counts *vocab.Counts) error {
 	x := &Extension{Parent: l.parent.Fingerprint, ParentKeys: len(old.Keys)}
 	all := l.cutoffs
 	all.MaxTerms = 0
-	pass, _ := counts.Build(all)
+	pass, cut := counts.Build(all)
+	l.extCut = cut
 	n := len(old.Keys)
 	vv.Keys = append(make([]string, 0, n), old.Keys...)
 	vv.Orders = append(make([]int, 0, n), old.Orders...)

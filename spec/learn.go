@@ -100,6 +100,9 @@ type Learner struct {
 	parent   *Spec      // the spec being extended (see NewExtendLearner)
 	ext      *Extension // filled by Finish when extending
 	fields   *fieldLearner
+	// extCut is what the cutoffs removed from the new corpus's keys
+	// when extending a parent spec.
+	extCut vocab.CutReport
 }
 
 // NewLearner prepares learning with the given settings.
@@ -329,7 +332,11 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 			if n := len(l.parent.Content.Labels.Map); len(lab.Map) > n {
 				l.ext.NewLabels = lab.Map[n:]
 			}
-			rep = vocab.CutReport{Seen: w.counts.Len(), Kept: len(vv.Keys)}
+			// What the cutoffs removed from the new corpus's keys (some
+			// of them stay as retired parent columns); Kept counts every
+			// column, the parent's included.
+			rep = vocab.CutReport{Seen: w.counts.Len(), Kept: len(vv.Keys), BelowMinDocs: l.extCut.BelowMinDocs,
+				AboveMaxShare: l.extCut.AboveMaxShare, OverMaxTerms: l.ext.OverMaxTerms}
 		} else {
 			v, r := w.counts.Build(l.cutoffs)
 			rep = r
