@@ -73,10 +73,7 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer rej.abort()
-	var reject func(error, []byte) error
-	if rj := rej.rejects(); rj != nil {
-		reject = rj.Add
-	}
+	reject := rej.reject()
 	bar := newProgress(rf.progress, r.Size(), stderr, "drift")
 	res, err := drift.Compare(s, r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: bar.set, Reject: reject})
 	bar.finish()

@@ -121,10 +121,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer rej.abort()
-	var reject func(error, []byte) error
-	if rj := rej.rejects(); rj != nil {
-		reject = rj.Add
-	}
+	reject := rej.reject()
 	var hr *corpus.Reader
 	if holdout != "" {
 		hopts, err := in.Options(holdout, nil, c.Given)
