@@ -118,6 +118,13 @@ func (b *Builder) EmitFrom(prefix []byte, tokens [][]byte, from int, fn func(key
 			}
 		}
 	}
+	b.EmitCharsFrom(prefix, tokens, from, fn)
+}
+
+// EmitCharsFrom emits only the character n-grams of EmitFrom: those of
+// tokens[from:], in the same order. With a caller that forms word n-grams
+// itself it lets both kinds come out as EmitFrom gives them.
+func (b *Builder) EmitCharsFrom(prefix []byte, tokens [][]byte, from int, fn func(key []byte, kind Kind, order int)) {
 	if c := b.c.Chars; c.On() {
 		for _, tok := range tokens[from:] {
 			b.mark(tok)

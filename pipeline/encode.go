@@ -359,7 +359,7 @@ func oovFigures(ws *spec.WorkerStats, top int) *report.OOV {
 	o := &report.OOV{}
 	for _, code := range ws.Codes() {
 		f, u := ws.Features[code], ws.Unseen[code]
-		k, uk := spec.KeyCount(ws.Keys, code), spec.KeyCount(ws.UnseenKeys, code)
+		k, uk := ws.Keys(code)
 		o.Features += f
 		o.Unseen += u
 		o.Keys += k

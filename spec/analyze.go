@@ -140,6 +140,38 @@ func (a *Analysis) NewAnalyzer() *Analyzer {
 // during fn; code is the key's order code (see OrderCode).
 func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, code int)) {
 	emit := func(key []byte, kind ngram.Kind, order int) { fn(key, OrderCode(kind, order)) }
+	z.run(texts, func(_ int, prefix []byte, tokens [][]byte, from int) {
+		z.ngr.EmitFrom(prefix, tokens, from, emit)
+	})
+}
+
+// AnalyzeTokens is Analyze for a caller that forms the word n-grams itself
+// (looking them up through word ids, say). For each text field and each
+// chunk of its kept tokens, words gets the field's index, its key prefix
+// (see Prefix), the tokens and from: tokens[:from] are context, passed
+// with the chunk before, for the word n-grams that reach into
+// tokens[from:]. The character n-gram keys of
+// tokens[from:] go to chars right after, so keys come in Analyze's order
+// when words emits, for each word order, its n-grams ending at or after
+// from, left to right.
+func (z *Analyzer) AnalyzeTokens(texts [][]byte, words func(field int, prefix []byte, tokens [][]byte, from int), chars func(key []byte, code int)) {
+	emit := func(key []byte, kind ngram.Kind, order int) { chars(key, OrderCode(kind, order)) }
+	z.run(texts, func(field int, prefix []byte, tokens [][]byte, from int) {
+		words(field, prefix, tokens, from)
+		z.ngr.EmitCharsFrom(prefix, tokens, from, emit)
+	})
+}
+
+// Prefix returns the key prefix of text field i ("" with one text field).
+func (z *Analyzer) Prefix(i int) string {
+	if z.prefixes != nil && i < len(z.prefixes) {
+		return string(z.prefixes[i])
+	}
+	return ""
+}
+
+// run tokenizes texts and hands each chunk of kept tokens to sink.
+func (z *Analyzer) run(texts [][]byte, sink func(field int, prefix []byte, tokens [][]byte, from int)) {
 	for i, text := range texts {
 		var prefix []byte
 		if z.prefixes != nil && i < len(z.prefixes) {
@@ -158,10 +190,10 @@ func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, code int)) {
 			z.arena = append(z.arena, t...)
 			z.spans = append(z.spans, len(z.arena))
 			if len(z.spans) >= chunkTokens {
-				ctx = z.flush(prefix, ctx, false, emit)
+				ctx = z.flush(i, prefix, ctx, false, sink)
 			}
 		})
-		z.flush(prefix, ctx, true, emit)
+		z.flush(i, prefix, ctx, true, sink)
 	}
 }
 
@@ -173,14 +205,14 @@ const chunkTokens = 4096
 // flush emits the keys of the tokens held, the first ctx of which are
 // context already emitted. Unless final, it keeps the context the next
 // chunk needs and returns its length.
-func (z *Analyzer) flush(prefix []byte, ctx int, final bool, emit func([]byte, ngram.Kind, int)) int {
+func (z *Analyzer) flush(field int, prefix []byte, ctx int, final bool, sink func(int, []byte, [][]byte, int)) int {
 	z.tokens = z.tokens[:0]
 	start := 0
 	for _, end := range z.spans {
 		z.tokens = append(z.tokens, z.arena[start:end:end])
 		start = end
 	}
-	z.ngr.EmitFrom(prefix, z.tokens, ctx, emit)
+	sink(field, prefix, z.tokens, ctx)
 	if final {
 		return 0
 	}

@@ -3,11 +3,13 @@ package spec
 import (
 	"fmt"
 	"math"
+	"math/bits"
 	"strconv"
 	"strings"
 	"sync"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 	"github.com/cespare/xxhash/v2"
@@ -18,7 +20,11 @@ import (
 type Encoder struct {
 	spec     *Spec
 	analysis *Analysis
-	vocab    *vocab.Vocabulary
+	index    *vocab.Index // vocabulary mode
+	nterms   int          // vocabulary columns (before unseen columns)
+	orders   []int        // order code of each vocabulary column
+	wordIDs  bool         // word n-grams are looked up through word ids
+	words    ngram.Range  // word n-gram orders
 	unseen   vocab.Unseen
 	hasher   *hashing.Hasher
 	tf       weight.TF
@@ -56,13 +62,18 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 		if v == nil {
 			return nil, fmt.Errorf("vocabulary mode without a vocabulary")
 		}
-		terms := make([]vocab.Term, len(v.Keys))
-		for i, k := range v.Keys {
-			terms[i] = vocab.Term{Key: k, Order: v.Orders[i], Docs: v.DocCounts[i]}
+		var prefixes []string
+		if len(c.Input.Text) > 1 {
+			for _, f := range c.Input.Text {
+				prefixes = append(prefixes, f+"|")
+			}
 		}
-		if e.vocab, err = vocab.New(terms); err != nil {
+		if e.index, err = vocab.NewIndex(v.Keys, v.Orders, prefixes, wordCode); err != nil {
 			return nil, err
 		}
+		e.nterms, e.orders = len(v.Keys), v.Orders
+		e.words = e.analysis.ngrams.Words
+		e.wordIDs = e.index.Packed() && e.words.On()
 		if e.unseen, err = vocab.ParseUnseen(v.Unseen); err != nil {
 			return nil, err
 		}
@@ -113,6 +124,12 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 		}
 	}
 	return e, nil
+}
+
+// wordCode tells whether an order code is that of a word n-gram, and of
+// how many words.
+func wordCode(code int) (int, bool) {
+	return code, code >= 1 && code <= ngram.MaxWordOrder
 }
 
 // Spec returns the spec the encoder applies.
@@ -177,15 +194,20 @@ type DocStats struct {
 
 // Worker encodes documents for one goroutine and gathers the run's figures.
 type Worker struct {
-	e     *Encoder
-	z     *Analyzer
-	acc   *weight.Accumulator
-	h     *hashing.Hasher
-	uh    *hashing.Hasher // unseen hash:K
-	Stats WorkerStats
-	doc   DocStats
-	track bool
-	fs    fieldState
+	e       *Encoder
+	z       *Analyzer
+	acc     *weight.Accumulator
+	h       *hashing.Hasher
+	uh      *hashing.Hasher // unseen hash:K
+	Stats   WorkerStats
+	doc     DocStats
+	track   bool
+	fs      fieldState
+	addFn   func([]byte, int)
+	wordsFn func(int, []byte, [][]byte, int)
+	ids     []int32 // word ids of a chunk's tokens
+	cols    []int32 // columns of a chunk's n-grams of one order, or -1
+	key     []byte  // a key built for an n-gram looked up by ids
 }
 
 // WorkerStats accumulates a worker's figures.
@@ -193,14 +215,18 @@ type WorkerStats struct {
 	// Features and Unseen per order code.
 	Features [MaxOrderCode + 1]int64
 	Unseen   [MaxOrderCode + 1]int64
-	// Keys and UnseenKeys: distinct keys (by 64-bit hash) per order code
+	// Seen marks the vocabulary columns whose keys were emitted (a bit
+	// per column; nil unless the worker tracks keys).
+	Seen []uint64
+	// UnseenKeys: distinct unseen keys (by 64-bit hash) per order code
 	// (nil unless the worker tracks keys).
-	Keys       *[MaxOrderCode + 1]*hashing.Tally
 	UnseenKeys *[MaxOrderCode + 1]*hashing.Tally
 	// TopUnseen counts unseen keys (capped at MaxTrackedUnseen keys).
 	TopUnseen map[string]int64
 	// Tally is the hashing-mode collision account.
 	Tally *hashing.Tally
+	// orders is the order code of each vocabulary column.
+	orders []int
 }
 
 // MaxTrackedUnseen caps how many distinct unseen keys a worker counts by
@@ -211,8 +237,10 @@ const MaxTrackedUnseen = 200000
 // (distinct keys, unseen keys, collisions) as well as counts.
 func (e *Encoder) NewWorker(track bool) *Worker {
 	w := &Worker{e: e, z: e.analysis.NewAnalyzer(), acc: weight.NewAccumulator(), track: track}
-	if track {
-		w.Stats.Keys = new([MaxOrderCode + 1]*hashing.Tally)
+	w.addFn, w.wordsFn = w.add, w.wordChunk
+	if track && e.index != nil {
+		w.Stats.Seen = make([]uint64, (e.nterms+63)/64)
+		w.Stats.orders = e.orders
 		w.Stats.UnseenKeys = new([MaxOrderCode + 1]*hashing.Tally)
 		w.Stats.TopUnseen = map[string]int64{}
 	}
@@ -235,7 +263,11 @@ func (w *Worker) Analyzer() *Analyzer { return w.z }
 func (w *Worker) Encode(texts [][]byte, dst *weight.Row) DocStats {
 	w.acc.Reset()
 	w.doc = DocStats{}
-	w.z.Analyze(texts, w.add)
+	if w.e.wordIDs {
+		w.z.AnalyzeTokens(texts, w.wordsFn, w.addFn)
+	} else {
+		w.z.Analyze(texts, w.addFn)
+	}
 	e := w.e
 	var idf []float64
 	if e.idf != nil {
@@ -257,39 +289,73 @@ func (w *Worker) Encode(texts [][]byte, dst *weight.Row) DocStats {
 	return w.doc
 }
 
-func (w *Worker) add(key []byte, code int) {
-	e := w.e
-	w.doc.Features++
-	w.Stats.Features[code]++
-	if e.vocab != nil {
-		col, ok := e.vocab.Lookup(key)
-		var sum uint64
-		if w.track {
-			sum = xxhash.Sum64(key)
-			addKey(w.Stats.Keys, code, sum)
-		}
-		if ok {
-			w.acc.Add(col, 1)
-			return
-		}
-		w.doc.Unseen++
-		w.Stats.Unseen[code]++
-		if w.track {
-			addKey(w.Stats.UnseenKeys, code, sum)
-			if n, ok := w.Stats.TopUnseen[string(key)]; ok || len(w.Stats.TopUnseen) < MaxTrackedUnseen {
-				w.Stats.TopUnseen[string(key)] = n + 1
+// wordChunk looks up the word n-grams of a chunk of tokens through the ids
+// of their words (see Analyzer.AnalyzeTokens), in the order Analyze emits
+// them.
+func (w *Worker) wordChunk(field int, prefix []byte, tokens [][]byte, from int) {
+	x := w.e.index
+	ids := w.ids[:0]
+	for _, t := range tokens {
+		ids = append(ids, x.Word(t))
+	}
+	w.ids = ids
+	r := w.e.words
+	for n := r.Min; n <= r.Max && n <= len(tokens); n++ {
+		lo := max(0, from-n+1)
+		// Columns first, in a loop of independent probes, so that the
+		// processor overlaps their cache misses.
+		cols := w.cols[:0]
+		switch n {
+		case 1:
+			for _, id := range ids[lo:] {
+				cols = append(cols, x.Unigram(field, id))
+			}
+		case 2:
+			for i := lo; i+1 < len(ids); i++ {
+				cols = append(cols, x.Bigram(field, ids[i], ids[i+1]))
 			}
 		}
-		base := e.vocab.Len()
-		switch e.unseen.Mode {
-		case vocab.UnseenCount:
-			w.acc.Add(base, 1)
-		case vocab.UnseenHash:
-			b, _ := w.uh.Bucket(key)
-			w.acc.Add(base+int(b), 1)
+		w.cols = cols
+		for i := lo; i+n <= len(tokens); i++ {
+			col, ok := -1, false
+			if n <= 2 {
+				col = int(cols[i-lo])
+				ok = col >= 0
+			}
+			if ok {
+				w.seen(col, n)
+				continue
+			}
+			k := append(w.key[:0], prefix...)
+			k = append(k, tokens[i]...)
+			for _, t := range tokens[i+1 : i+n] {
+				k = append(k, ' ')
+				k = append(k, t...)
+			}
+			w.key = k
+			if n > 2 || x.OddWordKeys() {
+				if col, ok = x.Lookup(k); ok {
+					w.seen(col, n)
+					continue
+				}
+			}
+			w.unseenKey(k, n)
+		}
+	}
+}
+
+func (w *Worker) add(key []byte, code int) {
+	e := w.e
+	if e.index != nil {
+		if col, ok := e.index.Lookup(key); ok {
+			w.seen(col, code)
+		} else {
+			w.unseenKey(key, code)
 		}
 		return
 	}
+	w.doc.Features++
+	w.Stats.Features[code]++
 	sum := w.h.Sum(key)
 	b := hashing.BucketOf(sum, e.hasher.Width)
 	sign := 1.0
@@ -302,6 +368,39 @@ func (w *Worker) add(key []byte, code int) {
 	}
 }
 
+// seen counts a key of the vocabulary, in column col.
+func (w *Worker) seen(col, code int) {
+	w.doc.Features++
+	w.Stats.Features[code]++
+	if w.Stats.Seen != nil {
+		w.Stats.Seen[col>>6] |= 1 << (col & 63)
+	}
+	w.acc.Add(col, 1)
+}
+
+// unseenKey counts a key the vocabulary lacks and applies the unseen-key
+// policy.
+func (w *Worker) unseenKey(key []byte, code int) {
+	e := w.e
+	w.doc.Features++
+	w.Stats.Features[code]++
+	w.doc.Unseen++
+	w.Stats.Unseen[code]++
+	if w.track {
+		addKey(w.Stats.UnseenKeys, code, xxhash.Sum64(key))
+		if n, ok := w.Stats.TopUnseen[string(key)]; ok || len(w.Stats.TopUnseen) < MaxTrackedUnseen {
+			w.Stats.TopUnseen[string(key)] = n + 1
+		}
+	}
+	switch e.unseen.Mode {
+	case vocab.UnseenCount:
+		w.acc.Add(e.nterms, 1)
+	case vocab.UnseenHash:
+		b, _ := w.uh.Bucket(key)
+		w.acc.Add(e.nterms+int(b), 1)
+	}
+}
+
 func addKey(m *[MaxOrderCode + 1]*hashing.Tally, code int, sum uint64) {
 	t := m[code]
 	if t == nil {
@@ -311,12 +410,22 @@ func addKey(m *[MaxOrderCode + 1]*hashing.Tally, code int, sum uint64) {
 	t.Add(sum)
 }
 
-// KeyCount is the number of distinct keys of order code in m.
-func KeyCount(m *[MaxOrderCode + 1]*hashing.Tally, code int) int64 {
-	if m == nil || m[code] == nil {
-		return 0
+// Keys returns the number of distinct keys of order code emitted, and how
+// many of them were unseen (vocabulary mode, when the worker tracks keys).
+func (s *WorkerStats) Keys(code int) (keys, unseen int64) {
+	if s.UnseenKeys != nil && s.UnseenKeys[code] != nil {
+		unseen = int64(s.UnseenKeys[code].Len())
 	}
-	return int64(m[code].Len())
+	for i, word := range s.Seen {
+		for word != 0 {
+			b := bits.TrailingZeros64(word)
+			word &= word - 1
+			if s.orders[i*64+b] == code {
+				keys++
+			}
+		}
+	}
+	return keys + unseen, unseen
 }
 
 // Merge adds o's figures to w's.
@@ -338,8 +447,10 @@ func (s *WorkerStats) Merge(o *WorkerStats) {
 			dst[code].Merge(t)
 		}
 	}
-	if s.Keys != nil && o.Keys != nil {
-		mergeSets(s.Keys, o.Keys)
+	if s.Seen != nil && o.Seen != nil {
+		for i, b := range o.Seen {
+			s.Seen[i] |= b
+		}
 		mergeSets(s.UnseenKeys, o.UnseenKeys)
 		for k, v := range o.TopUnseen {
 			if n, ok := s.TopUnseen[k]; ok || len(s.TopUnseen) < MaxTrackedUnseen {

@@ -1,0 +1,162 @@
+package spec
+
+import (
+	"bytes"
+	"fmt"
+	"maps"
+	"strings"
+	"testing"
+
+	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/weight"
+)
+
+// wordIDTexts are texts whose tokens stress what the word-id lookup relies
+// on (tokens hold no space and no '|'): every kind of space between words,
+// separators, apostrophes, scripts without spaces, emoji, combining marks,
+// and words of exactly 8 and 9 bytes on both sides of the packed-word
+// limit. The Unicode characters are chosen from the UAX #29 word-break
+// classes (Unicode Standard Annex #29, table 3: WSegSpace, MidLetter,
+// MidNumLet, ExtendNumLet, Extend).
+var wordIDTexts = []string{
+	"dock\u00a0bike dock\u3000bike dock\tbike dock\u2003bike dock|bike dock||bike",
+	"don't don\u2019t U.S.A v8 snake_case ___ 3.14 1,000 e\u0301t\u00e9 na\u00efve",
+	"\u0e2a\u0e27\u0e31\u0e2a\u0e14\u0e35 \u6771\u4eac \u30ab\u30bf\u30ab\u30ca \U0001F6B2 bike\u200dshare",
+	"abcdefgh abcdefghi abcdefgh abcdefghi abcdefgh\u00e9 \u00e9\u00e9\u00e9\u00e9",
+	"|| | a|b a | b  a  b",
+	"",
+}
+
+// wordIDCorpus is the invented Pellwick demo corpus (text column) with
+// wordIDTexts mixed in.
+func wordIDCorpus(t *testing.T, n int) []string {
+	t.Helper()
+	var buf bytes.Buffer
+	if err := demo.WriteTSV(&buf, demo.Options{Docs: n, Seed: 3}); err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(buf.String()), "\n")[1:]
+	var out []string
+	for i, l := range lines {
+		out = append(out, strings.Split(l, "\t")[4])
+		if i%50 == 0 {
+			out = append(out, wordIDTexts[(i/50)%len(wordIDTexts)])
+		}
+	}
+	return append(out, wordIDTexts...)
+}
+
+// TestWordIDLookupMatchesKeyLookup checks the encoder's word-id path (word
+// unigrams and bigrams found through the ids of their words) against the
+// plain definition: every key the analyzer emits, looked up by its bytes in
+// a map of the spec's keys. Rows, unseen counts and distinct-key figures
+// must agree for one and several text fields, word orders 1 to 3, with and
+// without character n-grams.
+func TestWordIDLookupMatchesKeyLookup(t *testing.T) {
+	texts := wordIDCorpus(t, 600)
+	train, test := texts[:len(texts)/2], texts[len(texts)/2:]
+	cases := []struct {
+		name   string
+		fields int
+		ng     ngram.Config
+	}{
+		{"w1", 1, ngram.Config{Words: ngram.Range{Min: 1, Max: 1}}},
+		{"w1-2", 1, ngram.Config{Words: ngram.Range{Min: 1, Max: 2}}},
+		{"w2", 1, ngram.Config{Words: ngram.Range{Min: 2, Max: 2}}},
+		{"w1-3 c2-3", 1, ngram.Config{Words: ngram.Range{Min: 1, Max: 3}, Chars: ngram.Range{Min: 2, Max: 3}}},
+		{"two fields w1-2", 2, ngram.Config{Words: ngram.Range{Min: 1, Max: 2}}},
+		{"three fields w1-3", 3, ngram.Config{Words: ngram.Range{Min: 1, Max: 3}}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			s := settings(ModeVocabulary)
+			s.NGrams = tc.ng
+			s.TF, s.IDF, s.Norm = weight.TFCount, weight.IDFNone, weight.NormNone
+			s.Cutoffs.MinDocs = 2
+			s.Unseen = vocab.Unseen{Mode: vocab.UnseenCount}
+			s.Input.Text = nil
+			for f := range tc.fields {
+				s.Input.Text = append(s.Input.Text, fmt.Sprintf("f%d", f))
+			}
+			doc := func(i int, set []string) [][]byte {
+				var d [][]byte
+				for f := range tc.fields {
+					d = append(d, []byte(set[(i+f*7)%len(set)]))
+				}
+				return d
+			}
+			l, err := NewLearner(s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			lw := l.NewWorker()
+			for i := range train {
+				lw.Observe(doc(i, train))
+			}
+			sp, _, err := l.Finish(lw, LabelsFrom(nil, false))
+			if err != nil {
+				t.Fatal(err)
+			}
+			e, err := NewEncoder(sp)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !e.wordIDs {
+				t.Fatal("the encoder does not use word ids")
+			}
+			cols := map[string]int{}
+			for i, k := range sp.Content.Vocabulary.Keys {
+				cols[k] = i
+			}
+			w := e.NewWorker(true)
+			z := e.Analysis().NewAnalyzer()
+			wantUnseen := map[string]int64{}
+			wantKeys := map[int]map[string]bool{}
+			var row weight.Row
+			for i := range test {
+				d := doc(i, test)
+				ds := w.Encode(d, &row)
+				want := map[int]float64{}
+				var feats, unseen int
+				z.Analyze(d, func(key []byte, code int) {
+					feats++
+					if wantKeys[code] == nil {
+						wantKeys[code] = map[string]bool{}
+					}
+					wantKeys[code][string(key)] = true
+					if c, ok := cols[string(key)]; ok {
+						want[c]++
+						return
+					}
+					unseen++
+					wantUnseen[string(key)]++
+					want[len(cols)]++
+				})
+				got := map[int]float64{}
+				for j, c := range row.Indices {
+					got[c] = row.Values[j]
+				}
+				if !maps.Equal(got, want) || ds.Features != feats || ds.Unseen != unseen {
+					t.Fatalf("doc %d %q: row %v features %d unseen %d, want %v %d %d", i, d, got, ds.Features, ds.Unseen, want, feats, unseen)
+				}
+			}
+			if !maps.Equal(w.Stats.TopUnseen, wantUnseen) {
+				t.Errorf("unseen keys differ: %d vs %d", len(w.Stats.TopUnseen), len(wantUnseen))
+			}
+			for code, keys := range wantKeys {
+				var u int64
+				for k := range keys {
+					if _, ok := cols[k]; !ok {
+						u++
+					}
+				}
+				gk, gu := w.Stats.Keys(code)
+				if gk != int64(len(keys)) || gu != u {
+					t.Errorf("%s: %d distinct keys, %d unseen; want %d, %d", OrderLabel(code), gk, gu, len(keys), u)
+				}
+			}
+		})
+	}
+}

@@ -1,0 +1,353 @@
+package vocab
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+)
+
+// Index finds the columns of vocabulary keys without building key
+// strings for word n-grams: a word unigram is found through the id of its
+// word and a word bigram through the pair of ids of its words, so a
+// document's tokens are each looked up once, and a bigram costs one probe
+// of an integer table. Other keys (character n-grams, word n-grams of three
+// or more words) are found by their bytes.
+//
+// An Index relies on what bowline's keys are made of: a word n-gram key is
+// a field prefix followed by its tokens joined by one space, and tokens
+// hold no space and no '|' (UAX #29 words never do). It is safe for
+// concurrent use once built.
+type Index struct {
+	prefixes []string         // field prefixes, in field order ("" for one unprefixed field)
+	short    PairTable        // words of up to 8 bytes, packed (see pack8) -> id
+	words    map[string]int32 // longer words of word unigram and bigram keys -> id
+	nwords   int
+	uni      []int32          // [field*nwords + id] -> column, or -1
+	pairs    PairTable        // PairKey(field, id1, id2) -> column
+	rest     map[string]int32 // every other key -> column
+	odd      bool             // rest holds word unigram or bigram keys
+}
+
+// maxIndexWords and maxIndexFields bound what PairKey can pack.
+const (
+	maxIndexWords  = 1<<28 - 1
+	maxIndexFields = 1 << 8
+)
+
+// NewIndex indexes the columns keys (with their order codes, a parallel
+// slice) for documents whose text fields carry the given key prefixes (one
+// per field, in order; nil or {""} for a single field without prefix).
+// wordCode tells whether an order code is that of a word n-gram and of how
+// many words (bowline: codes 1 to 16). A key given twice is an error.
+func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code int) (n int, ok bool)) (*Index, error) {
+	if len(orders) != len(keys) {
+		return nil, fmt.Errorf("vocab: %d keys but %d order codes", len(keys), len(orders))
+	}
+	if len(keys) > math.MaxInt32 {
+		return nil, errors.New("vocab: more than 2^31-1 terms")
+	}
+	if len(prefixes) == 0 {
+		prefixes = []string{""}
+	}
+	x := &Index{prefixes: prefixes, words: map[string]int32{}, rest: map[string]int32{}}
+	dup := func(key string, col int) error {
+		return fmt.Errorf("vocab: term %d: key %q appears twice", col, key)
+	}
+	type pending struct {
+		field int
+		a, b  int32 // word ids; b is -1 for a unigram
+		col   int32
+	}
+	found := make([]pending, 0, len(keys))
+	split := len(prefixes) <= maxIndexFields
+	for col, key := range keys {
+		n, ok := wordCode(orders[col])
+		placed := false
+		if ok && split && (n == 1 || n == 2) {
+			for f, p := range prefixes {
+				if len(key) < len(p) || key[:len(p)] != p {
+					continue
+				}
+				w := key[len(p):]
+				var w1, w2 string
+				if n == 1 {
+					w1 = w
+				} else {
+					i := strings.IndexByte(w, ' ')
+					if i < 0 {
+						continue
+					}
+					w1, w2 = w[:i], w[i+1:]
+				}
+				if !plainWord(w1) || n == 2 && !plainWord(w2) {
+					continue
+				}
+				a := x.wordID(w1)
+				b := int32(-1)
+				if n == 2 {
+					b = x.wordID(w2)
+				}
+				found = append(found, pending{f, a, b, int32(col)})
+				placed = true
+			}
+		}
+		if !placed {
+			if _, ok := x.rest[key]; ok {
+				return nil, dup(key, col)
+			}
+			x.rest[key] = int32(col)
+			x.odd = x.odd || ok && (n == 1 || n == 2)
+		}
+	}
+	if x.nwords > maxIndexWords {
+		// Too many words to pack: look everything up by its bytes.
+		x.words, x.short, x.nwords, x.uni = map[string]int32{}, PairTable{}, 0, nil
+		for col, key := range keys {
+			if _, ok := x.rest[key]; ok {
+				return nil, dup(key, col)
+			}
+			x.rest[key] = int32(col)
+		}
+		return x, nil
+	}
+	x.uni = make([]int32, len(prefixes)*x.nwords)
+	for i := range x.uni {
+		x.uni[i] = -1
+	}
+	npairs := 0
+	for _, p := range found {
+		if p.b >= 0 {
+			npairs++
+		}
+	}
+	x.pairs.init(npairs)
+	for _, p := range found {
+		if p.b < 0 {
+			u := &x.uni[p.field*x.nwords+int(p.a)]
+			if *u >= 0 {
+				return nil, dup(keys[p.col], int(p.col))
+			}
+			*u = p.col
+		} else {
+			if !x.pairs.Insert(PairKey(p.field, p.a, p.b), p.col) {
+				return nil, dup(keys[p.col], int(p.col))
+			}
+		}
+	}
+	return x, nil
+}
+
+// plainWord reports whether w can be a token: not empty, no space, no '|'.
+func plainWord(w string) bool {
+	if w == "" {
+		return false
+	}
+	for i := 0; i < len(w); i++ {
+		if w[i] == ' ' || w[i] == '|' {
+			return false
+		}
+	}
+	return true
+}
+
+func (x *Index) wordID(w string) int32 {
+	if len(w) <= 8 {
+		k := pack8(w)
+		if id, ok := x.short.Get(k); ok {
+			return id
+		}
+		id := x.newID()
+		x.short.Insert(k, id)
+		return id
+	}
+	if id, ok := x.words[w]; ok {
+		return id
+	}
+	id := x.newID()
+	x.words[w] = id
+	return id
+}
+
+func (x *Index) newID() int32 {
+	id := int32(x.nwords)
+	if x.nwords < math.MaxInt32 {
+		x.nwords++
+	}
+	return id
+}
+
+// pack8 packs a word of 1 to 8 bytes into a non-zero integer, little
+// endian, zero padded: exact, because tokens hold no NUL byte.
+func pack8[T string | []byte](w T) uint64 {
+	var k uint64
+	for i := len(w) - 1; i >= 0; i-- {
+		k = k<<8 | uint64(w[i])
+	}
+	return k
+}
+
+// Word returns the id of a token, or -1 when no word unigram or bigram key
+// of the vocabulary holds it (then no such key holds the token). It does
+// not allocate.
+func (x *Index) Word(tok []byte) int32 {
+	if len(tok) <= 8 {
+		if len(tok) == 0 {
+			return -1
+		}
+		if id, ok := x.short.Get(pack8(tok)); ok {
+			return id
+		}
+		return -1
+	}
+	if id, ok := x.words[string(tok)]; ok {
+		return id
+	}
+	return -1
+}
+
+// Unigram returns the column of the word unigram of field with word id
+// (from Word), or -1 when there is none (always for id -1).
+func (x *Index) Unigram(field int, id int32) int32 {
+	if id < 0 {
+		return -1
+	}
+	return x.uni[field*x.nwords+int(id)]
+}
+
+// Bigram returns the column of the word bigram of field with word ids a, b
+// (from Word), or -1 when there is none (always when a or b is -1).
+func (x *Index) Bigram(field int, a, b int32) int32 {
+	if a < 0 || b < 0 {
+		return -1
+	}
+	if c, ok := x.pairs.Get(PairKey(field, a, b)); ok {
+		return c
+	}
+	return -1
+}
+
+// Lookup returns the column of a key that Unigram and Bigram do not find:
+// a character n-gram or a word n-gram of three or more words (any key for
+// an Index too large to pack word ids). It does not allocate.
+func (x *Index) Lookup(key []byte) (int, bool) {
+	c, ok := x.rest[string(key)]
+	return int(c), ok
+}
+
+// OddWordKeys reports whether some word unigram or bigram keys could not
+// be split into words (a prefix matching no field, a word with a space):
+// Lookup finds those, so a caller must try Lookup when Unigram or Bigram
+// find nothing.
+func (x *Index) OddWordKeys() bool { return x.odd }
+
+// Packed reports whether word unigrams and bigrams are looked up through
+// word ids (false only for vocabularies of more than 2^28 words or more
+// than 256 fields, where Lookup finds every key).
+func (x *Index) Packed() bool { return x.uni != nil }
+
+// PairKey packs a field (below 256) and two word ids (below 2^28) into the
+// key of a PairTable. It is never 0.
+func PairKey(field int, a, b int32) uint64 {
+	return uint64(field)<<56 | uint64(a+1)<<28 | uint64(b+1)
+}
+
+// PairTable maps non-zero 64-bit keys to int32 values: an open-addressing
+// table with linear probing, at most half full. Keys and values sit side by
+// side, so a probe costs one cache line.
+type PairTable struct {
+	slots []pairSlot
+	shift uint
+	n     int
+}
+
+type pairSlot struct {
+	key uint64
+	val int32
+}
+
+// init sizes the table for n keys.
+func (t *PairTable) init(n int) {
+	size := 16
+	for size < 2*n {
+		size <<= 1
+	}
+	t.slots = make([]pairSlot, size)
+	t.shift = uint(64 - log2(size))
+	t.n = 0
+}
+
+// Len returns the number of keys.
+func (t *PairTable) Len() int { return t.n }
+
+func (t *PairTable) home(k uint64) int {
+	return int((k * 0x9E3779B97F4A7C15) >> t.shift)
+}
+
+// Get returns the value of k and whether k is in the table.
+func (t *PairTable) Get(k uint64) (int32, bool) {
+	if t.slots == nil {
+		return 0, false
+	}
+	mask := len(t.slots) - 1
+	for i := t.home(k); ; i = (i + 1) & mask {
+		s := &t.slots[i]
+		if s.key == k {
+			return s.val, true
+		}
+		if s.key == 0 {
+			return 0, false
+		}
+	}
+}
+
+// Put sets the value of k (not 0), growing the table as needed.
+func (t *PairTable) Put(k uint64, v int32) {
+	t.put(k, v, true)
+}
+
+// Insert adds k (not 0) with value v unless k is in the table already; it
+// reports whether it added k.
+func (t *PairTable) Insert(k uint64, v int32) bool {
+	return t.put(k, v, false)
+}
+
+func (t *PairTable) put(k uint64, v int32, replace bool) bool {
+	if t.slots == nil || 2*(t.n+1) > len(t.slots) {
+		t.grow()
+	}
+	mask := len(t.slots) - 1
+	for i := t.home(k); ; i = (i + 1) & mask {
+		s := &t.slots[i]
+		if s.key == k {
+			if replace {
+				s.val = v
+			}
+			return false
+		}
+		if s.key == 0 {
+			s.key, s.val = k, v
+			t.n++
+			return true
+		}
+	}
+}
+
+func (t *PairTable) grow() {
+	old := t.slots
+	n := t.n
+	t.init(max(8, 2*n))
+	for _, s := range old {
+		if s.key != 0 {
+			t.Put(s.key, s.val)
+		}
+	}
+}
+
+func log2(n int) int {
+	k := 0
+	for 1<<k < n {
+		k++
+	}
+	return k
+}
