@@ -378,15 +378,20 @@ func Read(r io.Reader, name string) (*Spec, error) {
 		}
 		return nil, &LoadError{File: name, Reason: reason, Err: err}
 	}
-	var fl fileLayout
-	dec := json.NewDecoder(bytes.NewReader(data))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(&fl); err != nil {
-		reason := "not a spec"
-		if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF) {
-			reason = "truncated"
+	// fastDecode gives the same result as the encoding/json path below,
+	// or gives up; the encoding/json path then also reports the errors.
+	fl, content, fast := fastDecode(data)
+	if !fast {
+		fl = fileLayout{}
+		dec := json.NewDecoder(bytes.NewReader(data))
+		dec.DisallowUnknownFields()
+		if err := dec.Decode(&fl); err != nil {
+			reason := "not a spec"
+			if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF) {
+				reason = "truncated"
+			}
+			return nil, &LoadError{File: name, Reason: reason, Err: err}
 		}
-		return nil, &LoadError{File: name, Reason: reason, Err: err}
 	}
 	if fl.Schema == 0 || fl.Content == nil {
 		return nil, &LoadError{File: name, Reason: "not a spec", Err: errors.New("no schema or content field")}
@@ -394,11 +399,14 @@ func Read(r io.Reader, name string) (*Spec, error) {
 	if fl.Schema > SchemaVersion {
 		return nil, &LoadError{File: name, Reason: "newer schema", Err: fmt.Errorf("schema version %d (written by %s); this bowline %s reads up to version %d", fl.Schema, fl.Tool, ToolVersion, SchemaVersion)}
 	}
-	s := &Spec{Fingerprint: fl.Fingerprint, Parent: fl.Parent, Tool: fl.Tool}
-	cdec := json.NewDecoder(bytes.NewReader(fl.Content))
-	cdec.DisallowUnknownFields()
-	if err := cdec.Decode(&s.Content); err != nil {
-		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
+	s := &Spec{Fingerprint: fl.Fingerprint, Parent: fl.Parent, Tool: fl.Tool, Content: content}
+	if !fast {
+		s.Content = Content{}
+		cdec := json.NewDecoder(bytes.NewReader(fl.Content))
+		cdec.DisallowUnknownFields()
+		if err := cdec.Decode(&s.Content); err != nil {
+			return nil, &LoadError{File: name, Reason: "invalid", Err: err}
+		}
 	}
 	// Bowline writes the content in canonical form, so the raw bytes
 	// usually hash to the fingerprint as they are; otherwise (a file
