@@ -290,11 +290,11 @@ func (d *jsonScan) vocabulary(v *Vocabulary) bool {
 		case 1 << 4:
 			return d.strings(&v.Keys)
 		case 1 << 5:
-			return d.ints(&v.Orders, len(v.Keys))
+			return d.ints(&v.Orders)
 		case 1 << 6:
-			return d.int64s(&v.DocCounts, len(v.Keys))
+			return d.int64s(&v.DocCounts)
 		case 1 << 7:
-			return d.bools(&v.Retired, len(v.Keys))
+			return d.bools(&v.Retired)
 		}
 		return d.delegate(dst)
 	})
@@ -330,11 +330,11 @@ func (d *jsonScan) weights(w *Weights) bool {
 		seen |= bit
 		switch bit {
 		case 1 << 3:
-			return d.float64s(&w.IDFValues, 0)
+			return d.float64s(&w.IDFValues)
 		case 1 << 4:
-			return d.uint64s(&w.IDFBuckets, 0)
+			return d.uint64s(&w.IDFBuckets)
 		case 1 << 5:
-			return d.float64s(&w.IDFBucketValues, len(w.IDFBuckets))
+			return d.float64s(&w.IDFBucketValues)
 		}
 		return d.delegate(dst)
 	})
@@ -523,9 +523,21 @@ func (d *jsonScan) bigUnsigned(lo int64, hi uint64) (uint64, bool, bool) {
 	return u, false, true
 }
 
-// ints decodes an array of int; hint is the expected length.
-func (d *jsonScan) ints(dst *[]int, hint int) bool {
-	out := make([]int, 0, hint)
+// scalars returns the length of the array of numbers or literals at the
+// scan, to size the slice for it: the commas before its first closing
+// bracket, plus one. (It is only a capacity; the array is parsed after.)
+func (d *jsonScan) scalars() int {
+	d.ws()
+	end := bytes.IndexByte(d.b[d.i:], ']')
+	if end < 0 {
+		return 0
+	}
+	return bytes.Count(d.b[d.i:d.i+end], []byte(",")) + 1
+}
+
+// ints decodes an array of int.
+func (d *jsonScan) ints(dst *[]int) bool {
+	out := make([]int, 0, d.scalars())
 	ok := d.array(func() bool {
 		v, neg, ok := d.integer(math.MinInt, math.MaxInt)
 		if neg {
@@ -543,9 +555,9 @@ func (d *jsonScan) ints(dst *[]int, hint int) bool {
 	return true
 }
 
-// int64s decodes an array of int64; hint is the expected length.
-func (d *jsonScan) int64s(dst *[]int64, hint int) bool {
-	out := make([]int64, 0, hint)
+// int64s decodes an array of int64.
+func (d *jsonScan) int64s(dst *[]int64) bool {
+	out := make([]int64, 0, d.scalars())
 	ok := d.array(func() bool {
 		v, neg, ok := d.integer(math.MinInt64, math.MaxInt64)
 		if neg {
@@ -563,9 +575,9 @@ func (d *jsonScan) int64s(dst *[]int64, hint int) bool {
 	return true
 }
 
-// uint64s decodes an array of uint64; hint is the expected length.
-func (d *jsonScan) uint64s(dst *[]uint64, hint int) bool {
-	out := make([]uint64, 0, hint)
+// uint64s decodes an array of uint64.
+func (d *jsonScan) uint64s(dst *[]uint64) bool {
+	out := make([]uint64, 0, d.scalars())
 	ok := d.array(func() bool {
 		v, _, ok := d.integer(0, math.MaxUint64)
 		out = append(out, v)
@@ -579,9 +591,9 @@ func (d *jsonScan) uint64s(dst *[]uint64, hint int) bool {
 	return true
 }
 
-// float64s decodes an array of float64; hint is the expected length.
-func (d *jsonScan) float64s(dst *[]float64, hint int) bool {
-	out := make([]float64, 0, hint)
+// float64s decodes an array of float64.
+func (d *jsonScan) float64s(dst *[]float64) bool {
+	out := make([]float64, 0, d.scalars())
 	ok := d.array(func() bool {
 		v, ok := d.number()
 		out = append(out, v)
@@ -638,9 +650,9 @@ func (d *jsonScan) number() (float64, bool) {
 	return v, true
 }
 
-// bools decodes an array of bool; hint is the expected length.
-func (d *jsonScan) bools(dst *[]bool, hint int) bool {
-	out := make([]bool, 0, hint)
+// bools decodes an array of bool.
+func (d *jsonScan) bools(dst *[]bool) bool {
+	out := make([]bool, 0, d.scalars())
 	ok := d.array(func() bool {
 		switch {
 		case bytes.HasPrefix(d.b[d.i:], []byte("true")):
