@@ -266,6 +266,7 @@ func (l *Learner) Shard(w *LearnWorker, labels Labels) (*Shard, error) {
 	if len(l.content.Fields) > 0 {
 		return nil, errors.New("count shards hold text counts only; the statistics of table fields (--category, --number, --time) are learned in one pass")
 	}
+	w.settle()
 	if p := w.counts.Pruning(); p.Evicted > 0 {
 		return nil, errors.New("count shards hold exact counts; these were pruned under a memory limit")
 	}

@@ -222,8 +222,16 @@ type LearnWorker struct {
 	l      *Learner
 	z      *Analyzer
 	counts *vocab.Counts
-	h      *hashing.Hasher
-	tally  *hashing.Tally
+	// ids counts word unigrams and bigrams by word ids (vocabulary mode
+	// without a key limit); settle moves them into counts.
+	ids     *vocab.IDCounts
+	wordsFn func(int, []byte, [][]byte, int)
+	charsFn func([]byte, int)
+	emitted int     // keys of the document being observed
+	idbuf   []int32 // word ids of a chunk's tokens
+	key     []byte  // a key of three or more words
+	h       *hashing.Hasher
+	tally   *hashing.Tally
 	// bucket document frequencies (hashing mode with idf)
 	bdf     map[uint64]int64
 	touched map[uint64]struct{}
@@ -235,6 +243,11 @@ func (l *Learner) NewWorker() *LearnWorker {
 	w := &LearnWorker{l: l, z: l.analysis.NewAnalyzer()}
 	if l.content.Mode == ModeVocabulary {
 		w.counts = vocab.NewCounts()
+		p := l.analysis.prefixes()
+		if l.capacity == 0 && l.analysis.ngrams.Words.On() && len(p) <= vocab.MaxIDFields {
+			w.ids = vocab.NewIDCounts(p)
+			w.wordsFn, w.charsFn = w.countWords, w.countKey
+		}
 	} else {
 		h := l.content.Hashing
 		w.h, _ = hashing.New(h.Width, h.Seed, h.Signed)
@@ -255,6 +268,13 @@ func (w *LearnWorker) Analyzer() *Analyzer { return w.z }
 func (w *LearnWorker) Observe(texts [][]byte) int {
 	n := 0
 	w.docs++
+	if w.ids != nil {
+		w.emitted = 0
+		w.z.AnalyzeTokens(texts, w.wordsFn, w.charsFn)
+		w.counts.EndDoc()
+		w.ids.EndDoc()
+		return w.emitted
+	}
 	if w.counts != nil {
 		w.z.Analyze(texts, func(key []byte, code int) {
 			n++
@@ -279,10 +299,62 @@ func (w *LearnWorker) Observe(texts [][]byte) int {
 	return n
 }
 
+// countWords counts the word n-grams of a chunk of tokens (see
+// Analyzer.AnalyzeTokens): unigrams and bigrams by word ids, longer ones
+// and those of words without an id by bytes.
+func (w *LearnWorker) countWords(field int, prefix []byte, tokens [][]byte, from int) {
+	ids := w.idbuf[:0]
+	for _, t := range tokens {
+		ids = append(ids, w.ids.Word(t))
+	}
+	w.idbuf = ids
+	r := w.l.analysis.ngrams.Words
+	for n := r.Min; n <= r.Max && n <= len(tokens); n++ {
+		for i := max(0, from-n+1); i+n <= len(tokens); i++ {
+			w.emitted++
+			switch {
+			case n == 1 && ids[i] >= 0:
+				w.ids.Add(field, ids[i], -1)
+				continue
+			case n == 2 && ids[i] >= 0 && ids[i+1] >= 0:
+				w.ids.Add(field, ids[i], ids[i+1])
+				continue
+			}
+			k := append(w.key[:0], prefix...)
+			k = append(k, tokens[i]...)
+			for _, t := range tokens[i+1 : i+n] {
+				k = append(k, ' ')
+				k = append(k, t...)
+			}
+			w.key = k
+			w.counts.Add(k, n)
+		}
+	}
+}
+
+// countKey counts a key by its bytes.
+func (w *LearnWorker) countKey(key []byte, code int) {
+	w.emitted++
+	w.counts.Add(key, code)
+}
+
+// settle moves the keys counted by word ids into the counts.
+func (w *LearnWorker) settle() {
+	if w.ids != nil && w.ids.Len() > 0 {
+		w.ids.AddTo(w.counts)
+	}
+}
+
 // Merge adds o's counts to w's.
 func (w *LearnWorker) Merge(o *LearnWorker) {
 	w.docs += o.docs
 	if w.counts != nil {
+		if w.ids != nil && o.ids != nil {
+			w.ids.Merge(o.ids, w.counts)
+		} else {
+			w.settle()
+			o.settle()
+		}
 		w.counts.Merge(o.counts)
 		return
 	}
@@ -296,7 +368,10 @@ func (w *LearnWorker) Merge(o *LearnWorker) {
 func (w *LearnWorker) Tally() *hashing.Tally { return w.tally }
 
 // Counts are the vocabulary-mode counts (nil in hashing mode).
-func (w *LearnWorker) Counts() *vocab.Counts { return w.counts }
+func (w *LearnWorker) Counts() *vocab.Counts {
+	w.settle()
+	return w.counts
+}
 
 // Finish turns the merged counts of w into a sealed spec; labels are the
 // distinct training label values.
@@ -318,6 +393,7 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 	if c.Mode == ModeVocabulary {
 		// Under a key limit the cutoffs apply to the documents each kept
 		// key really counted (vocab.Counts.Settle).
+		w.settle()
 		w.counts.Settle()
 		vv := *c.Vocabulary
 		if l.parent != nil {

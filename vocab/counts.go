@@ -31,6 +31,7 @@ type Counts struct {
 	ndocs  int64            // finished documents
 	open   bool             // Add was called since the last EndDoc
 	b      *bounded         // pruning state of a bounded Counts (see prune.go)
+	lazy   int              // keys at the end of keys not yet in index (see appendCounted)
 }
 
 // NewCounts returns an empty Counts.
@@ -45,6 +46,9 @@ func NewCounts() *Counts {
 // n-grams). Add does not retain key and does not allocate when the key has
 // been seen before.
 func (c *Counts) Add(key []byte, order int) {
+	if c.lazy > 0 {
+		c.sync()
+	}
 	c.open = true
 	if c.b != nil && c.b.doc.Len() > 0 {
 		if _, ok := c.b.doc.index[string(key)]; ok {
@@ -78,6 +82,7 @@ func (c *Counts) Add(key []byte, order int) {
 
 // insert appends a new distinct key.
 func (c *Counts) insert(key string, order int, count, docs, last int64) {
+	c.sync()
 	if len(c.keys) >= math.MaxInt32 {
 		panic("vocab: more than 2^31-1 distinct keys")
 	}
@@ -109,6 +114,7 @@ func (c *Counts) Len() int { return len(c.keys) }
 // as a finished document of c. An unfinished document of c stays open and
 // unaffected. o is not modified; c.Merge(c) doubles every figure.
 func (c *Counts) Merge(o *Counts) {
+	c.sync()
 	n := len(o.keys)
 	odocs := o.ndocs
 	if o.open {
@@ -207,6 +213,7 @@ func DocBucketBounds(i int) (lo, hi int64) {
 
 // Term returns the figures of one counted key, and whether it was counted.
 func (c *Counts) Term(key string) (Term, bool) {
+	c.sync()
 	i, ok := c.index[key]
 	if !ok {
 		return Term{Key: key}, false
@@ -334,4 +341,53 @@ func Survivors(hist, top []int64, docs int64, cut Cutoffs) (lo, hi int64) {
 		lo, hi = min(lo, m), min(hi, m)
 	}
 	return lo, hi
+}
+
+// addCounted adds count occurrences of key in docs documents that c has
+// not counted (from another counter), inserting the key if it is new.
+func (c *Counts) addCounted(key string, order int, count, docs int64) {
+	if c.b != nil {
+		panic("vocab: adding counted keys to bounded counts")
+	}
+	c.sync()
+	if i, ok := c.index[key]; ok {
+		s := &c.stats[i]
+		s.count += count
+		s.docs += docs
+		return
+	}
+	c.insert(key, order, count, docs, -1)
+}
+
+// appendCounted adds a key that c has not counted, with count occurrences
+// in docs documents c has not counted. The key joins the index lazily, the
+// next time c needs it: appending many keys to be sorted and cut (Build)
+// then costs no map insertions. The caller guarantees that the key is new.
+func (c *Counts) appendCounted(key string, order int, count, docs int64) {
+	if c.b != nil {
+		panic("vocab: adding counted keys to bounded counts")
+	}
+	if len(c.keys) >= math.MaxInt32 {
+		panic("vocab: more than 2^31-1 distinct keys")
+	}
+	c.keys = append(c.keys, key)
+	c.stats = append(c.stats, stat{count: count, docs: docs, last: -1, order: int32(order)})
+	c.lazy++
+}
+
+// sync puts the keys added by appendCounted into the index.
+func (c *Counts) sync() {
+	if c.lazy == 0 {
+		return
+	}
+	for i := len(c.keys) - c.lazy; i < len(c.keys); i++ {
+		c.index[c.keys[i]] = int32(i)
+	}
+	c.lazy = 0
+}
+
+// reserve makes room for n more keys.
+func (c *Counts) reserve(n int) {
+	c.keys = slices.Grow(c.keys, n)
+	c.stats = slices.Grow(c.stats, n)
 }

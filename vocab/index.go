@@ -4,7 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"strings"
+
+	"github.com/bowline/bowline/internal/hugemem"
 )
 
 // Index finds the columns of vocabulary keys without building key
@@ -135,6 +138,8 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 			}
 		}
 	}
+	// The tables may live outside the Go heap: give them back with x.
+	runtime.AddCleanup(x, func(t [2]PairTable) { t[0].Free(); t[1].Free() }, [2]PairTable{x.short, x.pairs})
 	return x, nil
 }
 
@@ -272,7 +277,7 @@ func (t *PairTable) init(n int) {
 	for size < 2*n {
 		size <<= 1
 	}
-	t.slots = make([]pairSlot, size)
+	t.slots = hugemem.Make[pairSlot](size)
 	t.shift = uint(64 - log2(size))
 	t.n = 0
 }
@@ -342,6 +347,14 @@ func (t *PairTable) grow() {
 			t.Put(s.key, s.val)
 		}
 	}
+	hugemem.Free(old)
+}
+
+// Free gives the table's memory back (large tables live outside the Go
+// heap, see internal/hugemem) and leaves it empty.
+func (t *PairTable) Free() {
+	hugemem.Free(t.slots)
+	*t = PairTable{}
 }
 
 func log2(n int) int {

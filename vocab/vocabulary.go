@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"strings"
+	"sync"
 )
 
 // Cutoffs select which counted keys become columns.
@@ -64,7 +65,8 @@ type Vocabulary struct {
 	// modified once the Vocabulary is in use.
 	Terms []Term
 
-	index map[string]int32
+	index map[string]int32 // built on first use after Build
+	once  sync.Once
 }
 
 // Build applies the cutoffs and returns the kept keys as a Vocabulary,
@@ -115,14 +117,10 @@ func (c *Counts) Build(cut Cutoffs) (*Vocabulary, CutReport) {
 		keep = keep[:cut.MaxTerms]
 	}
 	rep.Kept = len(keep)
-	v := &Vocabulary{
-		Terms: make([]Term, len(keep)),
-		index: make(map[string]int32, len(keep)),
-	}
+	v := &Vocabulary{Terms: make([]Term, len(keep))}
 	for col, i := range keep {
 		s := c.stats[i]
 		v.Terms[col] = Term{Key: c.keys[i], Order: int(s.order), Docs: s.docs, Count: s.count}
-		v.index[c.keys[i]] = int32(col)
 	}
 	return v, rep
 }
@@ -138,6 +136,7 @@ func New(terms []Term) (*Vocabulary, error) {
 		Terms: slices.Clone(terms),
 		index: make(map[string]int32, len(terms)),
 	}
+	v.once.Do(func() {})
 	for i, t := range v.Terms {
 		if j, dup := v.index[t.Key]; dup {
 			return nil, fmt.Errorf("vocab: term %d: key %q already at column %d", i, t.Key, j)
@@ -156,6 +155,12 @@ func (v *Vocabulary) Len() int { return len(v.Terms) }
 // Lookup returns the column of key, and whether the key is in the
 // vocabulary. It does not allocate.
 func (v *Vocabulary) Lookup(key []byte) (int, bool) {
+	v.once.Do(func() {
+		v.index = make(map[string]int32, len(v.Terms))
+		for i, t := range v.Terms {
+			v.index[t.Key] = int32(i)
+		}
+	})
 	i, ok := v.index[string(key)]
 	return int(i), ok
 }

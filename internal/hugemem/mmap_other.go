@@ -1,0 +1,7 @@
+//go:build !linux
+
+package hugemem
+
+func mapHuge(size int) []byte { return nil }
+
+func unmap(t []byte) {}
