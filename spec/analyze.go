@@ -69,6 +69,19 @@ func (c *Content) Analysis() (*Analysis, error) {
 	return &a, nil
 }
 
+// prefixes returns the key prefix of each text field ("field|"), or nil
+// with a single text field, whose keys have none.
+func (a *Analysis) prefixes() []string {
+	if len(a.fields) <= 1 {
+		return nil
+	}
+	p := make([]string, len(a.fields))
+	for i, f := range a.fields {
+		p[i] = f + "|"
+	}
+	return p
+}
+
 // Options converts the stored token settings.
 func (t Tokens) Options() (tokenize.Options, error) {
 	var o tokenize.Options

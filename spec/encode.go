@@ -62,13 +62,7 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 		if v == nil {
 			return nil, fmt.Errorf("vocabulary mode without a vocabulary")
 		}
-		var prefixes []string
-		if len(c.Input.Text) > 1 {
-			for _, f := range c.Input.Text {
-				prefixes = append(prefixes, f+"|")
-			}
-		}
-		if e.index, err = vocab.NewIndex(v.Keys, v.Orders, prefixes, wordCode); err != nil {
+		if e.index, err = vocab.NewIndex(v.Keys, v.Orders, e.analysis.prefixes(), wordCode); err != nil {
 			return nil, err
 		}
 		e.nterms, e.orders = len(v.Keys), v.Orders
