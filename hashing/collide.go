@@ -3,7 +3,10 @@ package hashing
 import (
 	"math"
 	"math/bits"
+	"runtime"
 	"slices"
+
+	"github.com/bowline/bowline/internal/hugemem"
 )
 
 // ExpectedCollisionRate returns the share of n distinct keys, hashed uniformly
@@ -81,7 +84,12 @@ type Tally struct {
 	zero  bool     // the sum 0 was added
 	buf   []uint64 // added, not yet inserted
 	tmp   []uint64 // buf ordered by region
+	held  *tallyHeld
 }
+
+// tallyHeld holds a Tally's current table for the clean-up that gives it
+// back.
+type tallyHeld struct{ slots []uint64 }
 
 // tallyBuffer is how many sums a Tally buffers before inserting them.
 const tallyBuffer = 1 << 14
@@ -90,8 +98,13 @@ const tallyBuffer = 1 << 14
 const tallyRegions = 256
 
 // NewTally returns an empty Tally.
+//
+// A large Tally's table lives outside the Go heap (see internal/hugemem);
+// it is given back when the Tally is collected.
 func NewTally() *Tally {
-	return &Tally{slots: make([]uint64, 1024), buf: make([]uint64, 0, tallyBuffer)}
+	t := &Tally{slots: make([]uint64, 1024), buf: make([]uint64, 0, tallyBuffer), held: new(tallyHeld)}
+	runtime.AddCleanup(t, func(h *tallyHeld) { hugemem.Free(h.slots) }, t.held)
+	return t
 }
 
 // Add records the hash sum of one key occurrence. Adding the same sum again
@@ -160,7 +173,9 @@ func (t *Tally) insert(sum uint64) {
 
 func (t *Tally) grow() {
 	old := t.slots
-	t.slots = make([]uint64, 2*len(old))
+	defer hugemem.Free(old)
+	t.slots = hugemem.Make[uint64](2 * len(old))
+	t.held.slots = t.slots
 	mask := uint64(len(t.slots) - 1)
 	for _, s := range old {
 		if s == 0 {
