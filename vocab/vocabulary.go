@@ -102,16 +102,7 @@ func (c *Counts) Build(cut Cutoffs) (*Vocabulary, CutReport) {
 		}
 		keep = append(keep, int32(i))
 	}
-	slices.SortFunc(keep, func(a, b int32) int {
-		da, db := c.stats[a].docs, c.stats[b].docs
-		if da != db {
-			if da > db {
-				return -1
-			}
-			return 1
-		}
-		return strings.Compare(c.keys[a], c.keys[b])
-	})
+	c.sortColumns(keep)
 	if cut.MaxTerms > 0 && len(keep) > cut.MaxTerms {
 		rep.OverMaxTerms = len(keep) - cut.MaxTerms
 		keep = keep[:cut.MaxTerms]
@@ -123,6 +114,48 @@ func (c *Counts) Build(cut Cutoffs) (*Vocabulary, CutReport) {
 		v.Terms[col] = Term{Key: c.keys[i], Order: int(s.order), Docs: s.docs, Count: s.count}
 	}
 	return v, rep
+}
+
+// sortColumns sorts key positions into column order: descending document
+// count, then ascending key bytes. Each key's first 8 bytes are compared as
+// one integer first (big endian, zero padded: an order consistent with the
+// bytes'), so most comparisons touch neither the key text nor a pointer.
+func (c *Counts) sortColumns(keep []int32) {
+	type item struct {
+		docs int64
+		pre  uint64
+		i    int32
+	}
+	items := make([]item, len(keep))
+	for j, i := range keep {
+		k := c.keys[i]
+		var pre uint64
+		for b := 0; b < 8; b++ {
+			pre <<= 8
+			if b < len(k) {
+				pre |= uint64(k[b])
+			}
+		}
+		items[j] = item{c.stats[i].docs, pre, i}
+	}
+	slices.SortFunc(items, func(a, b item) int {
+		if a.docs != b.docs {
+			if a.docs > b.docs {
+				return -1
+			}
+			return 1
+		}
+		if a.pre != b.pre {
+			if a.pre < b.pre {
+				return -1
+			}
+			return 1
+		}
+		return strings.Compare(c.keys[a.i], c.keys[b.i])
+	})
+	for j := range items {
+		keep[j] = items[j].i
+	}
 }
 
 // New returns a Vocabulary with the given terms as columns, in the given

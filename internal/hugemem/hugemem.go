@@ -9,10 +9,18 @@
 // pages on the project's 2-core build machine). Tables from Make live
 // outside the Go heap, so the garbage collector neither scans nor frees
 // them: the element type must hold no pointers, and each table must be
-// given back with Free.
+// given back with Free. BOWLINE_HUGEPAGES=0 in the environment turns this
+// off.
 package hugemem
 
-import "unsafe"
+import (
+	"os"
+	"unsafe"
+)
+
+// off is set by BOWLINE_HUGEPAGES=0 in the environment: every table then
+// comes from the Go heap (for measuring what huge pages bring).
+var off = os.Getenv("BOWLINE_HUGEPAGES") == "0"
 
 // MinBytes is the smallest table Make places outside the Go heap; smaller
 // ones are ordinary slices.
@@ -25,7 +33,7 @@ const MinBytes = 4 << 20
 func Make[T any](n int) []T {
 	var zero T
 	size := uintptr(n) * unsafe.Sizeof(zero)
-	if n <= 0 || size < MinBytes {
+	if n <= 0 || size < MinBytes || off {
 		return make([]T, n)
 	}
 	b := mapHuge(int(size))
