@@ -7,6 +7,7 @@ import (
 	"bytes"
 	"compress/gzip"
 	"crypto/sha256"
+	"encoding/binary"
 	"encoding/hex"
 	"encoding/json"
 	"errors"
@@ -370,7 +371,7 @@ func Read(r io.Reader, name string) (*Spec, error) {
 		}
 		src = zr
 	}
-	data, err := io.ReadAll(src)
+	data, err := readAll(src, sizeHint(r, src != br))
 	if err != nil {
 		reason := "unreadable"
 		if errors.Is(err, io.ErrUnexpectedEOF) {
@@ -426,6 +427,57 @@ func Read(r io.Reader, name string) (*Spec, error) {
 		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
 	}
 	return s, nil
+}
+
+// readAll is io.ReadAll with the buffer sized up front to hint bytes
+// (0: unknown), so that reading a large spec copies it once.
+func readAll(r io.Reader, hint int64) ([]byte, error) {
+	if hint <= 0 {
+		return io.ReadAll(r)
+	}
+	buf := bytes.NewBuffer(make([]byte, 0, hint+bytes.MinRead))
+	_, err := buf.ReadFrom(r)
+	return buf.Bytes(), err
+}
+
+// maxSizeHint bounds sizeHint: a larger spec is read with a growing
+// buffer.
+const maxSizeHint = 1 << 30
+
+// sizeHint guesses the number of bytes Read will read from r: the size of
+// a file or the length of an in-memory reader; for a gzipped file, the
+// uncompressed size its trailer records (RFC 1952 section 2.3.1, ISIZE:
+// the size modulo 2^32 of the last member), bounded by the largest deflate
+// ratio (1032:1, common practice). 0 when unknown. It is only a capacity.
+func sizeHint(r io.Reader, gzipped bool) int64 {
+	var size int64
+	switch r := r.(type) {
+	case *os.File:
+		fi, err := r.Stat()
+		if err != nil || !fi.Mode().IsRegular() {
+			return 0
+		}
+		size = fi.Size()
+		if gzipped {
+			var trailer [4]byte
+			if size < 18 {
+				return 0
+			}
+			if _, err := r.ReadAt(trailer[:], size-4); err != nil {
+				return 0
+			}
+			size = min(int64(binary.LittleEndian.Uint32(trailer[:])), 1032*size)
+		}
+	case interface{ Len() int }:
+		if gzipped {
+			return 0
+		}
+		size = int64(r.Len())
+	}
+	if size > maxSizeHint {
+		return 0
+	}
+	return size
 }
 
 func short(f string) string {

@@ -451,23 +451,16 @@ func countStrings(b []byte, i int) (n, end int) {
 		if b[i] != '"' {
 			return -1, 0
 		}
-		i++
-		for {
-			q := bytes.IndexByte(b[i:], '"')
-			if q < 0 {
-				return -1, 0
-			}
-			i += q + 1
-			// The quote ends the string unless an odd number of
-			// backslashes escapes it.
-			k := i - 2
-			for k >= 0 && b[k] == '\\' {
-				k--
-			}
-			if (i-2-k)%2 == 0 {
-				break
+		// Keys are short: a plain loop beats bytes.IndexByte here.
+		for i++; i < len(b) && b[i] != '"'; i++ {
+			if b[i] == '\\' {
+				i++
 			}
 		}
+		if i >= len(b) {
+			return -1, 0
+		}
+		i++
 		n++
 	}
 }

@@ -2,12 +2,15 @@ package spec
 
 import (
 	"bytes"
+	"compress/gzip"
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
+	"os"
+	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
@@ -420,4 +423,49 @@ func FuzzFastDecode(f *testing.F) {
 		compareDecoders(t, "content", wrapped)
 		compareReads(t, "content", wrapped)
 	})
+}
+
+// TestReadSizeHint: the read buffer is sized from the file (or, gzipped,
+// from the ISIZE field of the trailer, RFC 1952 section 2.3.1); a wrong
+// guess changes nothing. Two gzip members (RFC 1952 section 2.2: a file
+// is a series of members) make the trailer hold the size of the second
+// one only.
+func TestReadSizeHint(t *testing.T) {
+	var plain bytes.Buffer
+	if err := bigVocabularySpec(500, true).Write(&plain); err != nil {
+		t.Fatal(err)
+	}
+	data := plain.Bytes()
+	var members bytes.Buffer
+	for _, part := range [][]byte{data[:len(data)-10], data[len(data)-10:]} {
+		zw := gzip.NewWriter(&members)
+		zw.Write(part)
+		zw.Close()
+	}
+	dir := t.TempDir()
+	for name, b := range map[string][]byte{"plain.json": data, "members.json.gz": members.Bytes()} {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		f, err := os.Open(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if h := sizeHint(f, strings.HasSuffix(name, ".gz")); name == "plain.json" && h != int64(len(data)) || name != "plain.json" && h != 10 {
+			t.Errorf("%s: size hint %d", name, h)
+		}
+		f.Close()
+		got, err := Load(p)
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		want, err := referenceRead(data, p)
+		if err != nil || !reflect.DeepEqual(got, want) {
+			t.Fatalf("%s: Load and the reference differ (%v)", name, err)
+		}
+	}
+	if h := sizeHint(bytes.NewReader(data), false); h != int64(len(data)) {
+		t.Errorf("bytes.Reader: size hint %d", h)
+	}
 }
