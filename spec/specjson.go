@@ -36,37 +36,29 @@ import (
 // meaningless.
 func fastDecode(data []byte) (fl fileLayout, c Content, ok bool) {
 	d := &jsonScan{b: data}
-	var seen uint32
+	var seen fieldSet
 	ok = d.object(func(name []byte) bool {
-		var bit uint32
-		var dst any
+		if !seen.first(name) {
+			return false
+		}
 		switch string(name) {
 		case "schema":
-			bit, dst = 1, &fl.Schema
+			return d.delegate(&fl.Schema)
 		case "tool":
-			bit, dst = 2, &fl.Tool
+			return d.delegate(&fl.Tool)
 		case "fingerprint":
-			bit, dst = 4, &fl.Fingerprint
+			return d.delegate(&fl.Fingerprint)
 		case "parent":
-			bit, dst = 8, &fl.Parent
+			return d.delegate(&fl.Parent)
 		case "content":
-			bit = 16
-		default:
-			return false
+			start := d.i
+			if !d.content(&c) {
+				return false
+			}
+			fl.Content = data[start:d.i:d.i]
+			return true
 		}
-		if seen&bit != 0 {
-			return false
-		}
-		seen |= bit
-		if dst != nil {
-			return d.delegate(dst)
-		}
-		start := d.i
-		if !d.content(&c) {
-			return false
-		}
-		fl.Content = data[start:d.i:d.i]
-		return true
+		return false
 	})
 	return fl, c, ok
 }
@@ -198,145 +190,130 @@ func (d *jsonScan) delegate(v any) bool {
 	return len(raw) > 0 && dec.Decode(v) == nil && dec.InputOffset() == int64(len(raw))
 }
 
+// fieldSet holds the field names met in one object, to refuse a name
+// given twice: encoding/json would let the second overwrite the first, or
+// merge the two objects into one struct.
+type fieldSet struct {
+	names [16][]byte
+	n     int
+}
+
+// first reports whether name is met for the first time (and notes it).
+func (s *fieldSet) first(name []byte) bool {
+	for _, m := range s.names[:s.n] {
+		if bytes.Equal(m, name) {
+			return false
+		}
+	}
+	if s.n == len(s.names) {
+		return false
+	}
+	s.names[s.n] = name
+	s.n++
+	return true
+}
+
 // content decodes the content object.
 func (d *jsonScan) content(c *Content) bool {
-	var seen uint32
+	var seen fieldSet
 	return d.object(func(name []byte) bool {
-		var bit uint32
-		var dst any
+		if !seen.first(name) {
+			return false
+		}
 		switch string(name) {
 		case "input":
-			bit, dst = 1<<0, &c.Input
+			return d.delegate(&c.Input)
 		case "tokens":
-			bit, dst = 1<<1, &c.Tokens
+			return d.delegate(&c.Tokens)
 		case "stop":
-			bit, dst = 1<<2, &c.Stop
+			return d.delegate(&c.Stop)
 		case "stem":
-			bit, dst = 1<<3, &c.Stem
+			return d.delegate(&c.Stem)
 		case "ngrams":
-			bit, dst = 1<<4, &c.NGrams
+			return d.delegate(&c.NGrams)
 		case "mode":
-			bit, dst = 1<<5, &c.Mode
+			return d.delegate(&c.Mode)
 		case "docs":
-			bit, dst = 1<<6, &c.Docs
+			return d.delegate(&c.Docs)
 		case "vocabulary":
-			bit = 1 << 7
-		case "hashing":
-			bit, dst = 1<<8, &c.Hashing
-		case "weights":
-			bit = 1 << 9
-		case "labels":
-			bit, dst = 1<<10, &c.Labels
-		case "fields":
-			bit, dst = 1<<11, &c.Fields
-		default:
-			return false
-		}
-		if seen&bit != 0 {
-			return false
-		}
-		seen |= bit
-		switch {
-		case dst != nil:
-			return d.delegate(dst)
-		case bit == 1<<7 && d.peek() == '{':
+			if d.peek() != '{' {
+				return d.delegate(&c.Vocabulary)
+			}
 			c.Vocabulary = new(Vocabulary)
 			return d.vocabulary(c.Vocabulary)
-		case bit == 1<<7:
-			return d.delegate(&c.Vocabulary)
-		case d.peek() == '{':
+		case "hashing":
+			return d.delegate(&c.Hashing)
+		case "weights":
+			if d.peek() != '{' {
+				return d.delegate(&c.Weights)
+			}
 			return d.weights(&c.Weights)
-		default:
-			return d.delegate(&c.Weights)
+		case "labels":
+			return d.delegate(&c.Labels)
+		case "fields":
+			return d.delegate(&c.Fields)
 		}
+		return false
 	})
 }
 
 // vocabulary decodes a vocabulary object.
 func (d *jsonScan) vocabulary(v *Vocabulary) bool {
-	var seen uint32
+	var seen fieldSet
 	return d.object(func(name []byte) bool {
-		var bit uint32
-		var dst any
+		if !seen.first(name) {
+			return false
+		}
 		switch string(name) {
 		case "min_docs":
-			bit, dst = 1<<0, &v.MinDocs
+			return d.delegate(&v.MinDocs)
 		case "max_doc_share":
-			bit, dst = 1<<1, &v.MaxDocShare
+			return d.delegate(&v.MaxDocShare)
 		case "max_terms":
-			bit, dst = 1<<2, &v.MaxTerms
+			return d.delegate(&v.MaxTerms)
 		case "unseen":
-			bit, dst = 1<<3, &v.Unseen
+			return d.delegate(&v.Unseen)
 		case "keys":
-			bit = 1 << 4
+			return d.strs(&v.Keys)
 		case "orders":
-			bit = 1 << 5
-		case "doc_counts":
-			bit = 1 << 6
-		case "retired":
-			bit = 1 << 7
-		case "parent_keys":
-			bit, dst = 1<<8, &v.ParentKeys
-		case "seen":
-			bit, dst = 1<<9, &v.Seen
-		default:
-			return false
-		}
-		if seen&bit != 0 {
-			return false
-		}
-		seen |= bit
-		switch bit {
-		case 1 << 4:
-			return d.strings(&v.Keys)
-		case 1 << 5:
 			return d.ints(&v.Orders)
-		case 1 << 6:
+		case "doc_counts":
 			return d.int64s(&v.DocCounts)
-		case 1 << 7:
+		case "retired":
 			return d.bools(&v.Retired)
+		case "parent_keys":
+			return d.delegate(&v.ParentKeys)
+		case "seen":
+			return d.delegate(&v.Seen)
 		}
-		return d.delegate(dst)
+		return false
 	})
 }
 
 // weights decodes a weights object.
 func (d *jsonScan) weights(w *Weights) bool {
-	var seen uint32
+	var seen fieldSet
 	return d.object(func(name []byte) bool {
-		var bit uint32
-		var dst any
+		if !seen.first(name) {
+			return false
+		}
 		switch string(name) {
 		case "tf":
-			bit, dst = 1<<0, &w.TF
+			return d.delegate(&w.TF)
 		case "idf":
-			bit, dst = 1<<1, &w.IDF
+			return d.delegate(&w.IDF)
 		case "norm":
-			bit, dst = 1<<2, &w.Norm
+			return d.delegate(&w.Norm)
 		case "idf_values":
-			bit = 1 << 3
-		case "idf_buckets":
-			bit = 1 << 4
-		case "idf_bucket_values":
-			bit = 1 << 5
-		case "idf_default":
-			bit, dst = 1<<6, &w.IDFDefault
-		default:
-			return false
-		}
-		if seen&bit != 0 {
-			return false
-		}
-		seen |= bit
-		switch bit {
-		case 1 << 3:
 			return d.float64s(&w.IDFValues)
-		case 1 << 4:
+		case "idf_buckets":
 			return d.uint64s(&w.IDFBuckets)
-		case 1 << 5:
+		case "idf_bucket_values":
 			return d.float64s(&w.IDFBucketValues)
+		case "idf_default":
+			return d.delegate(&w.IDFDefault)
 		}
-		return d.delegate(dst)
+		return false
 	})
 }
 
@@ -371,12 +348,12 @@ func (d *jsonScan) array(elem func() bool) bool {
 	}
 }
 
-// strings decodes an array of strings. The keys of a large vocabulary
+// strs decodes an array of strings. The keys of a large vocabulary
 // share one allocation: a string without escapes is a piece of one copy
 // of the array's bytes. A first pass finds the end of the array and counts
 // its strings (it checks nothing); the second checks every byte as it
 // fills the slice.
-func (d *jsonScan) strings(dst *[]string) bool {
+func (d *jsonScan) strs(dst *[]string) bool {
 	start := d.i
 	n, end := countStrings(d.b, start)
 	if n < 0 {
@@ -396,7 +373,7 @@ func (d *jsonScan) strings(dst *[]string) bool {
 			high |= d.b[d.i]
 			d.i++
 		}
-		if d.i < len(d.b) && d.b[d.i] == '"' && (high < utf8.RuneSelf || utf8.Valid(d.b[q+1:d.i])) {
+		if d.i < end && d.b[d.i] == '"' && (high < utf8.RuneSelf || utf8.Valid(d.b[q+1:d.i])) {
 			d.i++
 			out = append(out, all[q+1-start:d.i-1-start])
 			return true
@@ -520,7 +497,9 @@ func (d *jsonScan) bigUnsigned(lo int64, hi uint64) (uint64, bool, bool) {
 // scan, to size the slice for it: the commas before its first closing
 // bracket, plus one. (It is only a capacity; the array is parsed after.)
 func (d *jsonScan) scalars() int {
-	d.ws()
+	if d.peek() != '[' {
+		return 0
+	}
 	end := bytes.IndexByte(d.b[d.i:], ']')
 	if end < 0 {
 		return 0
