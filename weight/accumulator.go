@@ -3,6 +3,7 @@ package weight
 import (
 	"cmp"
 	"math"
+	"math/bits"
 	"slices"
 )
 
@@ -28,7 +29,17 @@ type Accumulator struct {
 	maxCol int       // largest column added since Reset
 	keys   []uint64  // Finish scratch: col<<32 | position
 	perm   []int32   // Finish scratch when a column does not fit 32 bits
+	// bits marks the current document's columns (below bitCols), and
+	// summary the non-zero words of bits: Finish reads the columns out in
+	// order from them instead of sorting. Both are all zero between
+	// documents.
+	bits, summary []uint64
+	unmarked      bool // a column of the current document is not in bits
 }
+
+// bitCols bounds the columns marked in an Accumulator's bitmap (8 MiB of
+// bits at most); rows with larger columns are sorted.
+const bitCols = 1 << 26
 
 const minSlots = 64
 
@@ -88,6 +99,7 @@ func (a *Accumulator) Add(col int, v float64) {
 			if col > a.maxCol {
 				a.maxCol = col
 			}
+			a.mark(col)
 			if 2*len(a.cols) > len(a.slots) {
 				a.grow(2 * len(a.slots))
 			} else {
@@ -102,8 +114,57 @@ func (a *Accumulator) Add(col int, v float64) {
 	}
 }
 
+// mark sets col's bit.
+func (a *Accumulator) mark(col int) {
+	w := col >> 6
+	if w >= len(a.bits) {
+		if col >= bitCols {
+			a.unmarked = true
+			return
+		}
+		n := 1024
+		for n <= w {
+			n <<= 1
+		}
+		bits := make([]uint64, n)
+		copy(bits, a.bits)
+		summary := make([]uint64, (n+63)/64)
+		copy(summary, a.summary)
+		a.bits, a.summary = bits, summary
+	}
+	a.bits[w] |= 1 << (col & 63)
+	a.summary[w>>6] |= 1 << (w & 63)
+}
+
+// unmarkAll clears the bits of the current document's columns.
+func (a *Accumulator) unmarkAll() {
+	for _, c := range a.cols {
+		if w := c >> 6; w < len(a.bits) {
+			a.bits[w] = 0
+			a.summary[w>>6] = 0
+		}
+	}
+	a.unmarked = false
+}
+
+// position returns the position in cols of a column added since Reset.
+func (a *Accumulator) position(col int) int {
+	mask := len(a.slots) - 1
+	for s, n := a.home(col), 0; n <= mask; s, n = (s+1)&mask, n+1 {
+		if e := a.slots[s]; e>>32 == a.gen {
+			if p := int(uint32(e)); a.cols[p] == col {
+				return p
+			}
+		}
+	}
+	panic("weight: a marked column was not added")
+}
+
 // Reset discards the current document.
 func (a *Accumulator) Reset() {
+	if len(a.cols) > 0 && (a.unmarked || len(a.bits) > 0) {
+		a.unmarkAll()
+	}
 	a.cols = a.cols[:0]
 	a.vals = a.vals[:0]
 	a.maxCol = 0
@@ -137,7 +198,27 @@ func (a *Accumulator) Finish(tf TF, idf []float64, norm Norm, dst *Row) {
 			val = append(val, w)
 		}
 	}
-	if a.maxCol <= math.MaxUint32 {
+	if !a.unmarked && len(a.cols) > 0 && len(a.summary) <= 16*len(a.cols)+64 {
+		// Read the columns out of the bitmap in order, clearing it.
+		for i, sw := range a.summary {
+			if sw == 0 {
+				continue
+			}
+			a.summary[i] = 0
+			for sw != 0 {
+				w := i<<6 | bits.TrailingZeros64(sw)
+				sw &= sw - 1
+				bw := a.bits[w]
+				a.bits[w] = 0
+				for bw != 0 {
+					c := w<<6 | bits.TrailingZeros64(bw)
+					bw &= bw - 1
+					emit(a.position(c))
+				}
+			}
+		}
+		a.cols = a.cols[:0] // the bitmap is clear already
+	} else if a.maxCol <= math.MaxUint32 {
 		// One packed key per column: sorting plain integers is much
 		// faster than sorting with a comparison function.
 		keys := a.keys[:0]
