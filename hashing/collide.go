@@ -85,7 +85,13 @@ type Tally struct {
 	buf   []uint64 // added, not yet inserted
 	tmp   []uint64 // buf ordered by region
 	held  *tallyHeld
+	// recent holds the last sum added with each value of the top
+	// tallyRecentBits bits (a direct-mapped cache of 128 KiB).
+	recent []uint64
 }
+
+// tallyRecentBits sizes a Tally's cache of recent sums.
+const tallyRecentBits = 14
 
 // tallyHeld holds a Tally's current table for the clean-up that gives it
 // back.
@@ -102,7 +108,8 @@ const tallyRegions = 256
 // A large Tally's table lives outside the Go heap (see internal/hugemem);
 // it is given back when the Tally is collected.
 func NewTally() *Tally {
-	t := &Tally{slots: make([]uint64, 1024), buf: make([]uint64, 0, tallyBuffer), held: new(tallyHeld)}
+	t := &Tally{slots: make([]uint64, 1024), buf: make([]uint64, 0, tallyBuffer), held: new(tallyHeld),
+		recent: make([]uint64, 1<<tallyRecentBits)}
 	runtime.AddCleanup(t, func(h *tallyHeld) { hugemem.Free(h.slots) }, t.held)
 	return t
 }
@@ -110,6 +117,16 @@ func NewTally() *Tally {
 // Add records the hash sum of one key occurrence. Adding the same sum again
 // changes nothing.
 func (t *Tally) Add(sum uint64) {
+	// A sum seen lately is in the table or the buffer already: most key
+	// occurrences repeat a frequent key, and stop here.
+	f := &t.recent[sum>>(64-tallyRecentBits)]
+	if *f == sum {
+		if sum == 0 {
+			t.zero = true
+		}
+		return
+	}
+	*f = sum
 	t.buf = append(t.buf, sum)
 	if len(t.buf) == cap(t.buf) {
 		t.flush()

@@ -605,8 +605,18 @@ func TestTallyMatchesMap(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	a, b := NewTally(), NewTally()
 	want := map[uint64]bool{}
-	for i := 0; i < 200000; i++ {
-		s := rng.Uint64() % 150000 // many repeats
+	// Sums from a pool of full-width values (which spread over the cache
+	// of recent sums) and small values (which share its first slot), with
+	// many repeats.
+	pool := make([]uint64, 100000)
+	for i := range pool {
+		pool[i] = rng.Uint64()
+	}
+	for i := 0; i < 400000; i++ {
+		s := rng.Uint64() % 150000
+		if i%2 == 1 {
+			s = pool[int(rng.ExpFloat64()*3000)%len(pool)]
+		}
 		if i%1000 == 0 {
 			s = 0
 		}
