@@ -62,7 +62,7 @@ func safeCut(data []byte, i int) bool {
 var asciiClass = func() (c [128]uint8) {
 	for b := 'a'; b <= 'z'; b++ {
 		c[b] = clLetter
-		c[b-'a'+'A'] = clLetter
+		c[b-'a'+'A'] = clLetter | clUpper
 	}
 	for b := '0'; b <= '9'; b++ {
 		c[b] = clDigit
@@ -81,6 +81,7 @@ const (
 	clExtendNumLet
 	clMidLetter
 	clMidNum
+	clUpper // an upper-case letter (with clLetter)
 	clWord = clLetter | clDigit | clExtendNumLet
 )
 
@@ -108,7 +109,7 @@ func (t *Tokenizer) segmentASCII(d []byte, fn func([]byte, Kind)) {
 			if i+1 >= n {
 				break
 			}
-			mid, prev, next := asciiClass[d[i]], asciiClass[d[i-1]], asciiClass[d[i+1]]
+			mid, prev, next := asciiClass[d[i]], asciiClass[d[i-1]]&^clUpper, asciiClass[d[i+1]]&^clUpper
 			if mid&clMidLetter != 0 && prev == clLetter && next == clLetter ||
 				mid&clMidNum != 0 && prev == clDigit && next == clDigit {
 				i++
@@ -116,10 +117,34 @@ func (t *Tokenizer) segmentASCII(d []byte, fn func([]byte, Kind)) {
 			}
 			break
 		}
-		typ := segment.Letter
 		if seen&clLetter == 0 && seen&clDigit != 0 {
-			typ = segment.Number
+			t.emit(d[start:i], segment.Number, fn)
+			continue
 		}
-		t.emit(d[start:i], typ, fn)
+		t.emitASCII(d[start:i], seen&clUpper != 0, fn)
 	}
+}
+
+// emitASCII is emit for a Letter word of ASCII characters, upper telling
+// whether it holds an upper-case letter: such a word needs no case table,
+// accent rule or apostrophe folding, and its length in characters is its
+// length in bytes.
+func (t *Tokenizer) emitASCII(v []byte, upper bool, fn func([]byte, Kind)) {
+	if n := len(v); n < t.opt.MinLen || n > t.opt.MaxLen {
+		t.stats.DroppedLength++
+		return
+	}
+	tok := v
+	if upper && t.caseTable != nil {
+		b := append(t.each.a[:0], v...)
+		for i, c := range b {
+			if 'A' <= c && c <= 'Z' {
+				b[i] = c + 'a' - 'A'
+			}
+		}
+		t.each.a = b
+		tok = b
+	}
+	t.stats.Tokens++
+	fn(tok, Letter)
 }
