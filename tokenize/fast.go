@@ -82,7 +82,7 @@ const (
 	clMidLetter
 	clMidNum
 	clUpper // an upper-case letter (with clLetter)
-	clWord = clLetter | clDigit | clExtendNumLet
+	clWord  = clLetter | clDigit | clExtendNumLet
 )
 
 // segmentASCII emits the words of ASCII text exactly as the segmenter would:
