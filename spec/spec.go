@@ -362,6 +362,7 @@ func unwrapPathErr(err error) error {
 
 // Read reads a spec from r; name is used in errors.
 func Read(r io.Reader, name string) (*Spec, error) {
+	hint := sizeHint(r)
 	br := bufio.NewReader(r)
 	var src io.Reader = br
 	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
@@ -370,8 +371,9 @@ func Read(r io.Reader, name string) (*Spec, error) {
 			return nil, &LoadError{File: name, Reason: "truncated", Err: err}
 		}
 		src = zr
+		hint = gzipSizeHint(r)
 	}
-	data, err := readAll(src, sizeHint(r, src != br))
+	data, err := readAll(src, hint)
 	if err != nil {
 		reason := "unreadable"
 		if errors.Is(err, io.ErrUnexpectedEOF) {
@@ -444,12 +446,10 @@ func readAll(r io.Reader, hint int64) ([]byte, error) {
 // buffer.
 const maxSizeHint = 1 << 30
 
-// sizeHint guesses the number of bytes Read will read from r: the size of
-// a file or the length of an in-memory reader; for a gzipped file, the
-// uncompressed size its trailer records (RFC 1952 section 2.3.1, ISIZE:
-// the size modulo 2^32 of the last member), bounded by the largest deflate
-// ratio (1032:1, common practice). 0 when unknown. It is only a capacity.
-func sizeHint(r io.Reader, gzipped bool) int64 {
+// sizeHint guesses the number of bytes Read will read from r, before
+// anything is read: the size of a file or the length of an in-memory
+// reader. 0 when unknown. It is only a capacity.
+func sizeHint(r io.Reader) int64 {
 	var size int64
 	switch r := r.(type) {
 	case *os.File:
@@ -458,26 +458,33 @@ func sizeHint(r io.Reader, gzipped bool) int64 {
 			return 0
 		}
 		size = fi.Size()
-		if gzipped {
-			var trailer [4]byte
-			if size < 18 {
-				return 0
-			}
-			if _, err := r.ReadAt(trailer[:], size-4); err != nil {
-				return 0
-			}
-			size = min(int64(binary.LittleEndian.Uint32(trailer[:])), 1032*size)
-		}
 	case interface{ Len() int }:
-		if gzipped {
-			return 0
-		}
 		size = int64(r.Len())
 	}
 	if size > maxSizeHint {
 		return 0
 	}
 	return size
+}
+
+// gzipSizeHint is sizeHint for a gzipped file: the uncompressed size its
+// trailer records (RFC 1952 section 2.3.1, ISIZE: the size modulo 2^32 of
+// the last member), bounded by the largest deflate ratio (1032:1, common
+// practice).
+func gzipSizeHint(r io.Reader) int64 {
+	f, ok := r.(*os.File)
+	if !ok {
+		return 0
+	}
+	size := sizeHint(f)
+	var trailer [4]byte
+	if size < 18 {
+		return 0
+	}
+	if _, err := f.ReadAt(trailer[:], size-4); err != nil {
+		return 0
+	}
+	return min(int64(binary.LittleEndian.Uint32(trailer[:])), 1032*size, maxSizeHint)
 }
 
 func short(f string) string {
