@@ -2,6 +2,8 @@ package spec
 
 import (
 	"fmt"
+	"hash/maphash"
+	"math/bits"
 	"sort"
 	"strconv"
 	"strings"
@@ -45,12 +47,8 @@ func (s *Spec) Validate() error {
 		if _, err := vocab.ParseUnseen(v.Unseen); err != nil {
 			return err
 		}
-		seen := make(map[string]struct{}, len(v.Keys))
-		for i, k := range v.Keys {
-			if _, dup := seen[k]; dup {
-				return fmt.Errorf("vocabulary: key %q appears twice (column %d)", k, i)
-			}
-			seen[k] = struct{}{}
+		if i := firstDuplicate(v.Keys); i >= 0 {
+			return fmt.Errorf("vocabulary: key %q appears twice (column %d)", v.Keys[i], i)
 		}
 		if idf != weight.IDFNone && len(c.Weights.IDFValues) != len(v.Keys) {
 			return fmt.Errorf("weights: %d idf values for %d columns", len(c.Weights.IDFValues), len(v.Keys))
@@ -123,4 +121,43 @@ func LabelsFrom(values []string, hasLabel bool) Labels {
 	m := append([]string(nil), values...)
 	sort.Strings(m)
 	return Labels{Kind: "string", Map: m}
+}
+
+// firstDuplicate returns the first index whose key equals an earlier key,
+// or -1: what a map[string]struct{} check finds, with an open-addressing
+// table (linear probing) of 8-byte slots holding a 32-bit hash tag and the
+// index plus one, at most 2/3 full.
+func firstDuplicate(keys []string) int {
+	if len(keys) < 2 {
+		return -1
+	}
+	if uint64(len(keys)) >= 1<<32-1 {
+		seen := make(map[string]struct{}, len(keys))
+		for i, k := range keys {
+			if _, dup := seen[k]; dup {
+				return i
+			}
+			seen[k] = struct{}{}
+		}
+		return -1
+	}
+	size := 1 << bits.Len(uint(len(keys)+len(keys)/2))
+	mask := uint64(size - 1)
+	slots := make([]uint64, size)
+	seed := maphash.MakeSeed()
+	for i, k := range keys {
+		h := maphash.String(seed, k)
+		tag := h >> 32
+		for p := h & mask; ; p = (p + 1) & mask {
+			s := slots[p]
+			if s == 0 {
+				slots[p] = tag<<32 | uint64(i+1)
+				break
+			}
+			if s>>32 == tag && keys[s&(1<<32-1)-1] == k {
+				return i
+			}
+		}
+	}
+	return -1
 }
