@@ -85,7 +85,7 @@ func (c *IDCounts) Word(tok []byte) int32 {
 		if len(tok) == 0 {
 			return -1
 		}
-		k := pack8(tok)
+		k := packToken(tok)
 		if id, ok := c.short.Get(k); ok {
 			return id
 		}

@@ -1,6 +1,7 @@
 package vocab
 
 import (
+	"encoding/binary"
 	"errors"
 	"fmt"
 	"math"
@@ -192,6 +193,20 @@ func pack8[T string | []byte](w T) uint64 {
 	return k
 }
 
+// packToken is pack8 for a token of 1 to 8 bytes, loading 8 bytes at once
+// when the slice's capacity allows (the bytes past its length are
+// cleared).
+func packToken(w []byte) uint64 {
+	if cap(w) >= 8 {
+		k := binary.LittleEndian.Uint64(w[:8:8])
+		if n := len(w); n < 8 {
+			k &= 1<<(8*n) - 1
+		}
+		return k
+	}
+	return pack8(w)
+}
+
 // Word returns the id of a token, or -1 when no word unigram or bigram key
 // of the vocabulary holds it (then no such key holds the token). It does
 // not allocate.
@@ -200,7 +215,7 @@ func (x *Index) Word(tok []byte) int32 {
 		if len(tok) == 0 {
 			return -1
 		}
-		if id, ok := x.short.Get(pack8(tok)); ok {
+		if id, ok := x.short.Get(packToken(tok)); ok {
 			return id
 		}
 		return -1
