@@ -527,3 +527,15 @@ func TestAppendValueMatchesStrconv(t *testing.T) {
 		}
 	}
 }
+
+// TestAppendUintMatchesStrconv checks the two-digit formatter against
+// strconv on the edges of every digit count.
+func TestAppendUintMatchesStrconv(t *testing.T) {
+	for _, u := range []uint64{0, 1, 9, 10, 11, 99, 100, 101, 999, 1000, 65535, 1 << 20, 1<<32 - 1, 1 << 40, 1<<64 - 1} {
+		for _, v := range []uint64{u, u - 1, u + 1} {
+			if got, want := string(appendUint(nil, v)), strconv.FormatUint(v, 10); got != want {
+				t.Errorf("%d: %q, want %q", v, got, want)
+			}
+		}
+	}
+}

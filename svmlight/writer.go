@@ -111,11 +111,46 @@ func AppendRow(dst []byte, label float64, indices []int, values []float64, base 
 	dst = appendValue(dst, label)
 	for i, ix := range indices {
 		dst = append(dst, ' ')
-		dst = strconv.AppendInt(dst, int64(ix+base), 10)
+		if c := ix + base; c >= 0 {
+			dst = appendUint(dst, uint64(c))
+		} else {
+			dst = strconv.AppendInt(dst, int64(c), 10)
+		}
 		dst = append(dst, ':')
-		dst = appendValue(dst, values[i])
+		if v := values[i]; v > 0 && v < 10 && v == float64(int(v)) {
+			dst = append(dst, '0'+byte(v)) // a count of 1 to 9
+		} else {
+			dst = appendValue(dst, v)
+		}
 	}
 	return dst
+}
+
+// digitPairs holds "00" to "99".
+const digitPairs = "00010203040506070809101112131415161718192021222324252627282930313233343536373839" +
+	"40414243444546474849505152535455565758596061626364656667686970717273747576777879" +
+	"8081828384858687888990919293949596979899"
+
+// appendUint appends u in decimal, two digits at a time (as
+// strconv.AppendUint does, without its general-base dispatch).
+func appendUint(dst []byte, u uint64) []byte {
+	var a [20]byte
+	i := len(a)
+	for u >= 100 {
+		q := u / 100
+		r := (u - q*100) * 2
+		i -= 2
+		a[i], a[i+1] = digitPairs[r], digitPairs[r+1]
+		u = q
+	}
+	if u >= 10 {
+		i -= 2
+		a[i], a[i+1] = digitPairs[u*2], digitPairs[u*2+1]
+	} else {
+		i--
+		a[i] = '0' + byte(u)
+	}
+	return append(dst, a[i:]...)
 }
 
 // appendValue appends v in shortest round-trip form, exactly as
