@@ -72,6 +72,21 @@ type stemSlot struct {
 const stemTableSize = 2 * DefaultStemCacheSize // at most half full
 
 func packWord(b []byte) (lo, hi uint64) {
+	n := len(b)
+	if cap(b) >= 16 {
+		// Load 16 bytes at once (those past len are within cap) and
+		// clear the ones past len.
+		w := b[:16:16]
+		lo, hi = binary.LittleEndian.Uint64(w[:8]), binary.LittleEndian.Uint64(w[8:])
+		switch {
+		case n < 8:
+			lo &= 1<<(8*n) - 1
+			hi = 0
+		case n < 16:
+			hi &= 1<<(8*(n-8)) - 1
+		}
+		return lo, hi
+	}
 	var a [16]byte
 	copy(a[:], b)
 	return binary.LittleEndian.Uint64(a[:8]), binary.LittleEndian.Uint64(a[8:])

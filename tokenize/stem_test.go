@@ -1,6 +1,7 @@
 package tokenize
 
 import (
+	"bytes"
 	"bufio"
 	"compress/gzip"
 	"flag"
@@ -176,5 +177,24 @@ func TestStemCache(t *testing.T) {
 	ru, _ := NewStemmer("ru")
 	if got := string(ru.Stem([]byte("актёр"))); got != "актер" {
 		t.Errorf("Stem(актёр) = %q, want актер", got)
+	}
+}
+
+// TestStemOfTokenInsideBuffer: a token that is a slice of a larger text
+// (as the tokenizer hands them out, with bytes past its end) is stemmed as
+// the same word alone, through the stem cache.
+func TestStemOfTokenInsideBuffer(t *testing.T) {
+	s, err := NewStemmer("en")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := []byte("running runners ran easily generously connection connections connected")
+	for range 2 { // the second pass is served from the cache
+		for _, w := range bytes.Fields(text) {
+			alone := append([]byte(nil), w...)
+			if got, want := string(s.Stem(w)), string(s.compute(alone)); got != want {
+				t.Errorf("%q: %q, want %q", w, got, want)
+			}
+		}
 	}
 }
