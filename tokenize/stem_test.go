@@ -1,8 +1,8 @@
 package tokenize
 
 import (
-	"bytes"
 	"bufio"
+	"bytes"
 	"compress/gzip"
 	"flag"
 	"fmt"
