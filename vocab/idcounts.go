@@ -2,6 +2,7 @@ package vocab
 
 import (
 	"math"
+	"unsafe"
 
 	"github.com/bowline/bowline/internal/hugemem"
 )
@@ -303,7 +304,12 @@ func (c *IDCounts) AddTo(dst *Counts) {
 			buf = c.appendKey(buf, field, a, b)
 		}
 	}
-	all := string(buf)
+	if len(buf) == 0 {
+		c.init(1 << 10)
+		return
+	}
+	// buf is not written again: the keys can be slices of it as it is.
+	all := unsafe.String(&buf[0], len(buf))
 	dst.reserve(c.n)
 	off := 0
 	for _, s := range c.slots {
