@@ -107,6 +107,12 @@ func (b *Builder) EmitFrom(prefix []byte, tokens [][]byte, from int, fn func(key
 	if w := b.c.Words; w.On() {
 		for n := w.Min; n <= w.Max && n <= len(tokens); n++ {
 			for i := max(0, from-n+1); i+n <= len(tokens); i++ {
+				if len(prefix) == 0 {
+					if k, ok := Joined(tokens[i : i+n]); ok {
+						fn(k, Word, n)
+						continue
+					}
+				}
 				k := append(b.key[:0], prefix...)
 				k = append(k, tokens[i]...)
 				for _, t := range tokens[i+1 : i+n] {
@@ -142,6 +148,27 @@ func (b *Builder) EmitCharsFrom(prefix []byte, tokens [][]byte, from int, fn fun
 			}
 		}
 	}
+}
+
+// Joined returns the tokens joined by one space without copying them, when
+// they lie that way in one array (each token's slice reaching, within its
+// capacity, over the space and the next token, as the tokens of bowline's
+// analyzer do); ok is false otherwise. tokens must not be empty, nor any
+// token.
+func Joined(tokens [][]byte) (key []byte, ok bool) {
+	first := tokens[0]
+	if len(first) == 0 {
+		return nil, false
+	}
+	full := first[:cap(first)]
+	end := len(first)
+	for _, t := range tokens[1:] {
+		if len(t) == 0 || end+len(t) >= len(full) || full[end] != ' ' || &full[end+1] != &t[0] {
+			return nil, false
+		}
+		end += 1 + len(t)
+	}
+	return full[:end], true
 }
 
 // mark fills b.marked with the boundary-marked token and b.starts with its

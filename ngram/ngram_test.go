@@ -268,3 +268,29 @@ func BenchmarkEmit(b *testing.B) {
 		})
 	}
 }
+
+// TestJoined: tokens lying one space apart in one array are joined without
+// a copy; tokens from separate arrays, or apart by anything else, are not.
+func TestJoined(t *testing.T) {
+	arena := []byte("dock bike ride  x")
+	a, b, c := arena[0:4], arena[5:9], arena[10:14]
+	if k, ok := Joined([][]byte{a, b, c}); !ok || string(k) != "dock bike ride" || &k[0] != &arena[0] {
+		t.Errorf("adjacent tokens: %q %v", k, ok)
+	}
+	if k, ok := Joined([][]byte{b}); !ok || string(k) != "bike" {
+		t.Errorf("one token: %q %v", k, ok)
+	}
+	if _, ok := Joined([][]byte{c, arena[16:17]}); ok {
+		t.Error("tokens two spaces apart joined")
+	}
+	if _, ok := Joined([][]byte{a, []byte("bike")}); ok {
+		t.Error("tokens from different arrays joined")
+	}
+	if _, ok := Joined([][]byte{a, c}); ok {
+		t.Error("non-neighbouring tokens joined")
+	}
+	capped := arena[0:4:4]
+	if _, ok := Joined([][]byte{capped, b}); ok {
+		t.Error("joined past a token's capacity")
+	}
+}

@@ -200,8 +200,11 @@ func (z *Analyzer) run(texts [][]byte, sink func(field int, prefix []byte, token
 			if z.stem != nil {
 				t = z.stem.Stem(t)
 			}
+			// Tokens sit in the arena one space apart, so that a word
+			// n-gram's key (tokens joined by one space) is a slice of it.
 			z.arena = append(z.arena, t...)
 			z.spans = append(z.spans, len(z.arena))
+			z.arena = append(z.arena, ' ')
 			if len(z.spans) >= chunkTokens {
 				ctx = z.flush(i, prefix, ctx, false, sink)
 			}
@@ -222,8 +225,10 @@ func (z *Analyzer) flush(field int, prefix []byte, ctx int, final bool, sink fun
 	z.tokens = z.tokens[:0]
 	start := 0
 	for _, end := range z.spans {
-		z.tokens = append(z.tokens, z.arena[start:end:end])
-		start = end
+		// Not capped: the arena goes on after each token with a space
+		// and the next token (see ngram.Builder.EmitFrom).
+		z.tokens = append(z.tokens, z.arena[start:end])
+		start = end + 1
 	}
 	sink(field, prefix, z.tokens, ctx)
 	if final {
@@ -236,7 +241,7 @@ func (z *Analyzer) flush(field int, prefix []byte, ctx int, final bool, sink fun
 	}
 	cut := 0
 	if first := len(z.spans) - k; first > 0 {
-		cut = z.spans[first-1]
+		cut = z.spans[first-1] + 1
 	}
 	n := copy(z.arena, z.arena[cut:])
 	z.arena = z.arena[:n]
