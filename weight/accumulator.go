@@ -29,17 +29,8 @@ type Accumulator struct {
 	maxCol int       // largest column added since Reset
 	keys   []uint64  // Finish scratch: col<<32 | position
 	perm   []int32   // Finish scratch when a column does not fit 32 bits
-	// bits marks the current document's columns (below bitCols), and
-	// summary the non-zero words of bits: Finish reads the columns out in
-	// order from them instead of sorting. Both are all zero between
-	// documents.
-	bits, summary []uint64
-	unmarked      bool // a column of the current document is not in bits
+	counts []int32   // Finish scratch: bucket counts
 }
-
-// bitCols bounds the columns marked in an Accumulator's bitmap (8 MiB of
-// bits at most); rows with larger columns are sorted.
-const bitCols = 1 << 26
 
 const minSlots = 64
 
@@ -99,7 +90,6 @@ func (a *Accumulator) Add(col int, v float64) {
 			if col > a.maxCol {
 				a.maxCol = col
 			}
-			a.mark(col)
 			if 2*len(a.cols) > len(a.slots) {
 				a.grow(2 * len(a.slots))
 			} else {
@@ -114,57 +104,74 @@ func (a *Accumulator) Add(col int, v float64) {
 	}
 }
 
-// mark sets col's bit.
-func (a *Accumulator) mark(col int) {
-	w := col >> 6
-	if w >= len(a.bits) {
-		if col >= bitCols {
-			a.unmarked = true
-			return
+// bucketSort returns the current document's columns packed as col<<32 |
+// position, in ascending order. The columns are first spread over about as
+// many buckets as there are columns, by their leading bits below maxCol (a
+// counting sort), which leaves each a few places at most from its place
+// for hashed columns; an insertion sort finishes. When one bucket holds
+// too many columns (vocabulary columns crowd the low, frequent end), the
+// keys are sorted outright instead.
+func (a *Accumulator) bucketSort() []uint64 {
+	n := len(a.cols)
+	keys := a.keys[:0]
+	if n <= 24 {
+		for p, c := range a.cols {
+			keys = append(keys, uint64(c)<<32|uint64(p))
 		}
-		n := 1024
-		for n <= w {
-			n <<= 1
-		}
-		bits := make([]uint64, n)
-		copy(bits, a.bits)
-		summary := make([]uint64, (n+63)/64)
-		copy(summary, a.summary)
-		a.bits, a.summary = bits, summary
+		insertionSort(keys)
+		return keys
 	}
-	a.bits[w] |= 1 << (col & 63)
-	a.summary[w>>6] |= 1 << (w & 63)
-}
-
-// unmarkAll clears the bits of the current document's columns.
-func (a *Accumulator) unmarkAll() {
+	lb := bits.Len(uint(n)) // 2^lb buckets, n < 2^lb <= 2n
+	shift := max(0, bits.Len64(uint64(a.maxCol))-lb)
+	nb := 1 << lb
+	if cap(a.counts) < nb+1 {
+		a.counts = make([]int32, nb+1)
+	}
+	counts := a.counts[:nb+1]
+	clear(counts)
+	var most int32
 	for _, c := range a.cols {
-		if w := c >> 6; w < len(a.bits) {
-			a.bits[w] = 0
-			a.summary[w>>6] = 0
-		}
+		b := (c >> shift) + 1
+		counts[b]++
+		most = max(most, counts[b])
 	}
-	a.unmarked = false
+	if cap(keys) < n {
+		keys = make([]uint64, 0, n)
+	}
+	keys = keys[:n]
+	if most > 32 {
+		for p, c := range a.cols {
+			keys[p] = uint64(c)<<32 | uint64(p)
+		}
+		slices.Sort(keys)
+		return keys
+	}
+	for b := 1; b <= nb; b++ {
+		counts[b] += counts[b-1]
+	}
+	for p, c := range a.cols {
+		b := c >> shift
+		keys[counts[b]] = uint64(c)<<32 | uint64(p)
+		counts[b]++
+	}
+	insertionSort(keys)
+	return keys
 }
 
-// position returns the position in cols of a column added since Reset.
-func (a *Accumulator) position(col int) int {
-	mask := len(a.slots) - 1
-	for s, n := a.home(col), 0; n <= mask; s, n = (s+1)&mask, n+1 {
-		if e := a.slots[s]; e>>32 == a.gen {
-			if p := int(uint32(e)); a.cols[p] == col {
-				return p
-			}
+func insertionSort(k []uint64) {
+	for i := 1; i < len(k); i++ {
+		x := k[i]
+		j := i
+		for j > 0 && k[j-1] > x {
+			k[j] = k[j-1]
+			j--
 		}
+		k[j] = x
 	}
-	panic("weight: a marked column was not added")
 }
 
 // Reset discards the current document.
 func (a *Accumulator) Reset() {
-	if len(a.cols) > 0 && (a.unmarked || len(a.bits) > 0) {
-		a.unmarkAll()
-	}
 	a.cols = a.cols[:0]
 	a.vals = a.vals[:0]
 	a.maxCol = 0
@@ -198,34 +205,9 @@ func (a *Accumulator) Finish(tf TF, idf []float64, norm Norm, dst *Row) {
 			val = append(val, w)
 		}
 	}
-	if !a.unmarked && len(a.cols) > 0 && len(a.summary) <= 16*len(a.cols)+64 {
-		// Read the columns out of the bitmap in order, clearing it.
-		for i, sw := range a.summary {
-			if sw == 0 {
-				continue
-			}
-			a.summary[i] = 0
-			for sw != 0 {
-				w := i<<6 | bits.TrailingZeros64(sw)
-				sw &= sw - 1
-				bw := a.bits[w]
-				a.bits[w] = 0
-				for bw != 0 {
-					c := w<<6 | bits.TrailingZeros64(bw)
-					bw &= bw - 1
-					emit(a.position(c))
-				}
-			}
-		}
-		a.cols = a.cols[:0] // the bitmap is clear already
-	} else if a.maxCol <= math.MaxUint32 {
-		// One packed key per column: sorting plain integers is much
-		// faster than sorting with a comparison function.
-		keys := a.keys[:0]
-		for p, c := range a.cols {
-			keys = append(keys, uint64(c)<<32|uint64(p))
-		}
-		slices.Sort(keys)
+	if a.maxCol <= math.MaxUint32 {
+		// One packed key per column: col<<32 | position.
+		keys := a.bucketSort()
 		for _, k := range keys {
 			emit(int(uint32(k)))
 		}

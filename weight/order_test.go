@@ -9,9 +9,10 @@ import (
 
 // TestAccumulatorOrderAgainstMap sums random (column, value) pairs per
 // document with an Accumulator and with a map, sorted afterwards: the rows
-// must agree for small and huge columns (the bitmap path, the sorting
-// path, and documents mixing them), document after document, so that
-// nothing of one document leaks into the next.
+// must agree for small and huge columns (bucket sort, the sort for crowded
+// buckets, the comparison sort past 32-bit columns, and documents mixing
+// them), document after document, so that nothing of one document leaks
+// into the next.
 func TestAccumulatorOrderAgainstMap(t *testing.T) {
 	r := rand.New(rand.NewPCG(7, 8))
 	a := NewAccumulator()
