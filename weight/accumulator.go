@@ -30,6 +30,7 @@ type Accumulator struct {
 	keys   []uint64  // Finish scratch: col<<32 | position
 	perm   []int32   // Finish scratch when a column does not fit 32 bits
 	counts []int32   // Finish scratch: bucket counts
+	tmp    []uint64  // Finish scratch: radix sort
 }
 
 const minSlots = 64
@@ -143,8 +144,7 @@ func (a *Accumulator) bucketSort() []uint64 {
 		for p, c := range a.cols {
 			keys[p] = uint64(c)<<32 | uint64(p)
 		}
-		slices.Sort(keys)
-		return keys
+		return a.radixSort(keys)
 	}
 	for b := 1; b <= nb; b++ {
 		counts[b] += counts[b-1]
@@ -155,6 +155,36 @@ func (a *Accumulator) bucketSort() []uint64 {
 		counts[b]++
 	}
 	insertionSort(keys)
+	return keys
+}
+
+// radixSort sorts keys (col<<32 | position) by column, a byte at a time
+// from the lowest (a stable counting sort per byte), and returns them; it
+// may return the scratch buffer instead of keys.
+func (a *Accumulator) radixSort(keys []uint64) []uint64 {
+	if cap(a.tmp) < len(keys) {
+		a.tmp = make([]uint64, len(keys))
+	}
+	tmp := a.tmp[:len(keys)]
+	var count [256]int32
+	for shift := uint(32); shift < 64 && a.maxCol>>(shift-32) > 0; shift += 8 {
+		clear(count[:])
+		for _, k := range keys {
+			count[byte(k>>shift)]++
+		}
+		var sum int32
+		for i, c := range count {
+			count[i] = sum
+			sum += c
+		}
+		for _, k := range keys {
+			d := byte(k >> shift)
+			tmp[count[d]] = k
+			count[d]++
+		}
+		keys, tmp = tmp, keys
+	}
+	a.tmp = tmp
 	return keys
 }
 
