@@ -29,6 +29,7 @@ type Index struct {
 	nwords   int
 	uni      []int32          // [field*nwords + id] -> column, or -1
 	pairs    PairTable        // PairKey(field, id1, id2) -> column
+	packed   packedPairs      // the same in 8 bytes a pair, when it fits
 	rest     map[string]int32 // every other key -> column
 	odd      bool             // rest holds word unigram or bigram keys
 }
@@ -139,8 +140,13 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 			}
 		}
 	}
+	if len(prefixes) == 1 && x.nwords < packedMaxWords && len(keys) < packedMaxCols {
+		x.packed.build(&x.pairs)
+		x.pairs.Free()
+	}
 	// The tables may live outside the Go heap: give them back with x.
 	runtime.AddCleanup(x, func(t [2]PairTable) { t[0].Free(); t[1].Free() }, [2]PairTable{x.short, x.pairs})
+	runtime.AddCleanup(x, func(p []uint64) { hugemem.Free(p) }, x.packed.slots)
 	return x, nil
 }
 
@@ -241,10 +247,71 @@ func (x *Index) Bigram(field int, a, b int32) int32 {
 	if a < 0 || b < 0 {
 		return -1
 	}
+	if x.packed.slots != nil {
+		return x.packed.get(a, b)
+	}
 	if c, ok := x.pairs.Get(PairKey(field, a, b)); ok {
 		return c
 	}
 	return -1
+}
+
+// packedPairs maps the word-id pairs of one field to columns in one 64-bit
+// word a pair: the pair's 40 bits above the column's 24, open addressing
+// with linear probing, at most half full. Half the size of a PairTable,
+// it keeps more of a large vocabulary's bigrams in the cache.
+type packedPairs struct {
+	slots []uint64
+	shift uint
+}
+
+// Limits of packedPairs: word ids below 2^20-1, columns below 2^24.
+const (
+	packedMaxWords = 1<<20 - 1
+	packedMaxCols  = 1 << 24
+)
+
+func packedKey(a, b int32) uint64 { return uint64(a+1)<<20 | uint64(b+1) }
+
+func (p *packedPairs) home(k uint64) int {
+	return int((k * 0x9E3779B97F4A7C15) >> p.shift)
+}
+
+// build fills p from the pairs of field 0 of t.
+func (p *packedPairs) build(t *PairTable) {
+	size := 16
+	for size < 2*t.n {
+		size <<= 1
+	}
+	p.slots = hugemem.Make[uint64](size)
+	p.shift = uint(64 - log2(size))
+	mask := size - 1
+	for _, s := range t.slots {
+		if s.key == 0 {
+			continue
+		}
+		_, a, b := unpackPair(s.key)
+		k := packedKey(a, b)
+		i := p.home(k)
+		for p.slots[i] != 0 {
+			i = (i + 1) & mask
+		}
+		p.slots[i] = k<<24 | uint64(s.val)
+	}
+}
+
+func (p *packedPairs) get(a, b int32) int32 {
+	k := packedKey(a, b)
+	mask := len(p.slots) - 1
+	for i := p.home(k); ; i = (i + 1) & mask {
+		e := p.slots[i]
+		if e>>24 == k {
+			return int32(e & (1<<24 - 1))
+		}
+		if e == 0 {
+			return -1
+		}
+	}
 }
 
 // Lookup returns the column of a key that Unigram and Bigram do not find:
