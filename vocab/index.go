@@ -126,7 +126,12 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 			npairs++
 		}
 	}
-	x.pairs.init(npairs)
+	pack := len(prefixes) == 1 && x.nwords < packedMaxWords && len(keys) < packedMaxCols
+	if pack {
+		x.packed.init(npairs)
+	} else {
+		x.pairs.init(npairs)
+	}
 	for _, p := range found {
 		if p.b < 0 {
 			u := &x.uni[p.field*x.nwords+int(p.a)]
@@ -134,15 +139,17 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 				return nil, dup(keys[p.col], int(p.col))
 			}
 			*u = p.col
-		} else {
-			if !x.pairs.Insert(PairKey(p.field, p.a, p.b), p.col) {
-				return nil, dup(keys[p.col], int(p.col))
-			}
+			continue
 		}
-	}
-	if len(prefixes) == 1 && x.nwords < packedMaxWords && len(keys) < packedMaxCols {
-		x.packed.build(&x.pairs)
-		x.pairs.Free()
+		added := false
+		if pack {
+			added = x.packed.insert(p.a, p.b, p.col)
+		} else {
+			added = x.pairs.Insert(PairKey(p.field, p.a, p.b), p.col)
+		}
+		if !added {
+			return nil, dup(keys[p.col], int(p.col))
+		}
 	}
 	// The tables may live outside the Go heap: give them back with x.
 	runtime.AddCleanup(x, func(t [2]PairTable) { t[0].Free(); t[1].Free() }, [2]PairTable{x.short, x.pairs})
@@ -277,27 +284,29 @@ func (p *packedPairs) home(k uint64) int {
 	return int((k * 0x9E3779B97F4A7C15) >> p.shift)
 }
 
-// build fills p from the pairs of field 0 of t.
-func (p *packedPairs) build(t *PairTable) {
+// init sizes p for n pairs.
+func (p *packedPairs) init(n int) {
 	size := 16
-	for size < 2*t.n {
+	for size < 2*n {
 		size <<= 1
 	}
 	p.slots = hugemem.Make[uint64](size)
 	p.shift = uint(64 - log2(size))
-	mask := size - 1
-	for _, s := range t.slots {
-		if s.key == 0 {
-			continue
+}
+
+// insert adds the pair a, b with its column unless it is there already;
+// it reports whether it added it.
+func (p *packedPairs) insert(a, b, col int32) bool {
+	k := packedKey(a, b)
+	mask := len(p.slots) - 1
+	i := p.home(k)
+	for ; p.slots[i] != 0; i = (i + 1) & mask {
+		if p.slots[i]>>24 == k {
+			return false
 		}
-		_, a, b := unpackPair(s.key)
-		k := packedKey(a, b)
-		i := p.home(k)
-		for p.slots[i] != 0 {
-			i = (i + 1) & mask
-		}
-		p.slots[i] = k<<24 | uint64(s.val)
 	}
+	p.slots[i] = k<<24 | uint64(col)
+	return true
 }
 
 func (p *packedPairs) get(a, b int32) int32 {
