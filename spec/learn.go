@@ -451,11 +451,16 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 	if l.parent != nil {
 		s.Parent = l.parent.Fingerprint
 	}
-	if err := s.Seal(); err != nil {
+	// Sealing (the canonical encoding and its hash) and validating read
+	// the content only: they run at once.
+	verr := make(chan error, 1)
+	go func() { verr <- s.Validate() }()
+	serr := s.Seal()
+	if err := <-verr; err != nil {
 		return nil, rep, err
 	}
-	if err := s.Validate(); err != nil {
-		return nil, rep, err
+	if serr != nil {
+		return nil, rep, serr
 	}
 	return s, rep, nil
 }

@@ -15,7 +15,7 @@ func TestSortColumnsAgainstPlainOrder(t *testing.T) {
 	alpha := []string{"a", "b", "\x00", "\xff", "é", " ", "ab"}
 	c := NewCounts()
 	seen := map[string]bool{}
-	for len(c.keys) < 5000 {
+	for len(c.keys) < parallelSortItems+5000 { // past the two-goroutine threshold
 		var sb strings.Builder
 		for range r.IntN(14) {
 			sb.WriteString(alpha[r.IntN(len(alpha))])

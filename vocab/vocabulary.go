@@ -138,7 +138,7 @@ func (c *Counts) sortColumns(keep []int32) {
 		}
 		items[j] = item{c.stats[i].docs, pre, i}
 	}
-	slices.SortFunc(items, func(a, b item) int {
+	less := func(a, b item) int {
 		if a.docs != b.docs {
 			if a.docs > b.docs {
 				return -1
@@ -152,11 +152,48 @@ func (c *Counts) sortColumns(keep []int32) {
 			return 1
 		}
 		return strings.Compare(c.keys[a.i], c.keys[b.i])
-	})
-	for j := range items {
-		keep[j] = items[j].i
+	}
+	if len(items) < parallelSortItems {
+		slices.SortFunc(items, less)
+		for j := range items {
+			keep[j] = items[j].i
+		}
+		return
+	}
+	// Two halves sorted at once, then merged: the order is total (keys
+	// are distinct), so the result is the same as one sort's.
+	h := len(items) / 2
+	lo, hi := items[:h], items[h:]
+	var wg sync.WaitGroup
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		slices.SortFunc(lo, less)
+	}()
+	slices.SortFunc(hi, less)
+	wg.Wait()
+	j := 0
+	for len(lo) > 0 && len(hi) > 0 {
+		if less(lo[0], hi[0]) <= 0 {
+			keep[j], lo = lo[0].i, lo[1:]
+		} else {
+			keep[j], hi = hi[0].i, hi[1:]
+		}
+		j++
+	}
+	for _, it := range lo {
+		keep[j] = it.i
+		j++
+	}
+	for _, it := range hi {
+		keep[j] = it.i
+		j++
 	}
 }
+
+// parallelSortItems is the number of columns from which sortColumns sorts
+// on two goroutines.
+const parallelSortItems = 1 << 15
 
 // New returns a Vocabulary with the given terms as columns, in the given
 // order (as stored in a spec). It copies terms. A key that appears twice
