@@ -31,7 +31,7 @@ type Counts struct {
 	ndocs  int64            // finished documents
 	open   bool             // Add was called since the last EndDoc
 	b      *bounded         // pruning state of a bounded Counts (see prune.go)
-	lazy   int              // keys at the end of keys not yet in index (see appendCounted)
+	lazy   int              // keys at the end of keys not yet in index (see sync)
 }
 
 // NewCounts returns an empty Counts.
@@ -359,23 +359,8 @@ func (c *Counts) addCounted(key string, order int, count, docs int64) {
 	c.insert(key, order, count, docs, -1)
 }
 
-// appendCounted adds a key that c has not counted, with count occurrences
-// in docs documents c has not counted. The key joins the index lazily, the
-// next time c needs it: appending many keys to be sorted and cut (Build)
-// then costs no map insertions. The caller guarantees that the key is new.
-func (c *Counts) appendCounted(key string, order int, count, docs int64) {
-	if c.b != nil {
-		panic("vocab: adding counted keys to bounded counts")
-	}
-	if len(c.keys) >= math.MaxInt32 {
-		panic("vocab: more than 2^31-1 distinct keys")
-	}
-	c.keys = append(c.keys, key)
-	c.stats = append(c.stats, stat{count: count, docs: docs, last: -1, order: int32(order)})
-	c.lazy++
-}
-
-// sync puts the keys added by appendCounted into the index.
+// sync puts the keys added at the end of keys without the index
+// (IDCounts.AddTo) into the index.
 func (c *Counts) sync() {
 	if c.lazy == 0 {
 		return
@@ -384,10 +369,4 @@ func (c *Counts) sync() {
 		c.index[c.keys[i]] = int32(i)
 	}
 	c.lazy = 0
-}
-
-// reserve makes room for n more keys.
-func (c *Counts) reserve(n int) {
-	c.keys = slices.Grow(c.keys, n)
-	c.stats = slices.Grow(c.stats, n)
 }

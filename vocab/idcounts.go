@@ -2,6 +2,8 @@ package vocab
 
 import (
 	"math"
+	"slices"
+	"sync"
 	"unsafe"
 
 	"github.com/bowline/bowline/internal/hugemem"
@@ -286,9 +288,46 @@ func (c *IDCounts) appendKey(dst []byte, field int, a, b int32) []byte {
 // its owner counts by bytes (other keys) are apart.
 func (c *IDCounts) AddTo(dst *Counts) {
 	c.flush()
-	// All keys in one string, which the keys slice.
+	if c.n == 0 {
+		c.init(1 << 10)
+		return
+	}
+	if dst.b != nil {
+		panic("vocab: adding counted keys to bounded counts")
+	}
+	if len(dst.keys)+c.n > math.MaxInt32 {
+		panic("vocab: more than 2^31-1 distinct keys")
+	}
+	// The keys go to the end of dst's slices, in slot order; two
+	// goroutines write them, each for half the table.
+	base := len(dst.keys)
+	dst.keys = slices.Grow(dst.keys, c.n)[:base+c.n]
+	dst.stats = slices.Grow(dst.stats, c.n)[:base+c.n]
+	half := len(c.slots) / 2
+	before := 0 // keys in the first half
+	for _, s := range c.slots[:half] {
+		if s.key != 0 {
+			before++
+		}
+	}
+	var wg sync.WaitGroup
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		c.materialize(c.slots[:half], dst.keys[base:base+before], dst.stats[base:base+before])
+	}()
+	c.materialize(c.slots[half:], dst.keys[base+before:base+c.n], dst.stats[base+before:base+c.n])
+	wg.Wait()
+	dst.lazy += c.n
+	c.init(1 << 10)
+}
+
+// materialize writes the keys and figures of the used slots into keys and
+// stats (as many as there are used slots). The keys are slices of one
+// string.
+func (c *IDCounts) materialize(slots []idSlot, keys []string, stats []stat) {
 	size := 0
-	for _, s := range c.slots {
+	for _, s := range slots {
 		if s.key != 0 {
 			field, a, b := unpackPair(s.key)
 			size += len(c.prefixes[field]) + len(c.word(a))
@@ -297,32 +336,22 @@ func (c *IDCounts) AddTo(dst *Counts) {
 			}
 		}
 	}
-	buf := make([]byte, 0, size)
-	for _, s := range c.slots {
-		if s.key != 0 {
-			field, a, b := unpackPair(s.key)
-			buf = c.appendKey(buf, field, a, b)
-		}
-	}
-	if len(buf) == 0 {
-		c.init(1 << 10)
+	if size == 0 {
 		return
 	}
-	// buf is not written again: the keys can be slices of it as it is.
-	all := unsafe.String(&buf[0], len(buf))
-	dst.reserve(c.n)
-	off := 0
-	for _, s := range c.slots {
+	buf := make([]byte, 0, size)
+	j := 0
+	for _, s := range slots {
 		if s.key == 0 {
 			continue
 		}
 		field, a, b := unpackPair(s.key)
-		n := len(c.prefixes[field]) + len(c.word(a))
-		if b >= 0 {
-			n += 1 + len(c.word(b))
-		}
-		dst.appendCounted(all[off:off+n], order(b), s.count, s.docs)
-		off += n
+		start := len(buf)
+		buf = c.appendKey(buf, field, a, b)
+		// buf does not move (its capacity is exact) and is not written
+		// again: the keys can be slices of it as it is.
+		keys[j] = unsafe.String(&buf[start], len(buf)-start)
+		stats[j] = stat{count: s.count, docs: s.docs, last: -1, order: int32(order(b))}
+		j++
 	}
-	c.init(1 << 10)
 }
