@@ -93,6 +93,44 @@ type Tally struct {
 // tallyRecentBits sizes a Tally's cache of recent sums.
 const tallyRecentBits = 14
 
+// Recent is a direct-mapped cache of recently seen 64-bit sums (a slot per
+// value of their top bits), to skip most repeats of frequent keys before
+// they reach a Tally. Make one with NewRecent.
+type Recent []uint64
+
+// NewRecent returns an empty cache of 2^14 sums (128 KiB).
+func NewRecent() Recent { return make(Recent, 1<<tallyRecentBits) }
+
+// Seen reports whether sum is the last sum seen in its slot, and makes it
+// so. The sum 0 counts as seen at first: a Tally records it apart.
+func (r Recent) Seen(sum uint64) bool {
+	f := &r[sum>>(64-tallyRecentBits)]
+	if *f == sum {
+		return true
+	}
+	*f = sum
+	return false
+}
+
+// AddAll records sums (as Add does each), for sums gathered elsewhere, say
+// by several goroutines that each drop their own repeats with a Recent.
+func (t *Tally) AddAll(sums []uint64) {
+	r := Recent(t.recent)
+	for _, s := range sums {
+		if s == 0 {
+			t.zero = true
+			continue
+		}
+		if r.Seen(s) {
+			continue
+		}
+		t.buf = append(t.buf, s)
+		if len(t.buf) == cap(t.buf) {
+			t.flush()
+		}
+	}
+}
+
 // tallyHeld holds a Tally's current table for the clean-up that gives it
 // back.
 type tallyHeld struct{ slots []uint64 }
@@ -109,7 +147,7 @@ const tallyRegions = 256
 // it is given back when the Tally is collected.
 func NewTally() *Tally {
 	t := &Tally{slots: make([]uint64, 1024), buf: make([]uint64, 0, tallyBuffer), held: new(tallyHeld),
-		recent: make([]uint64, 1<<tallyRecentBits)}
+		recent: NewRecent()}
 	runtime.AddCleanup(t, func(h *tallyHeld) { hugemem.Free(h.slots) }, t.held)
 	return t
 }
@@ -119,14 +157,12 @@ func NewTally() *Tally {
 func (t *Tally) Add(sum uint64) {
 	// A sum seen lately is in the table or the buffer already: most key
 	// occurrences repeat a frequent key, and stop here.
-	f := &t.recent[sum>>(64-tallyRecentBits)]
-	if *f == sum {
+	if Recent(t.recent).Seen(sum) {
 		if sum == 0 {
 			t.zero = true
 		}
 		return
 	}
-	*f = sum
 	t.buf = append(t.buf, sum)
 	if len(t.buf) == cap(t.buf) {
 		t.flush()

@@ -87,14 +87,22 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 
 	workers := make([]*spec.Worker, nw)
 	var wg sync.WaitGroup
+	// Hashing mode: the workers hand their keys' sums over with each
+	// batch, and the writer keeps the one collision tally.
+	var tally *hashing.Tally
 	for i := 0; i < nw; i++ {
 		workers[i] = enc.NewWorker(true)
+		if workers[i].Stats.Tally != nil {
+			workers[i].CollectSums()
+			tally = hashing.NewTally()
+		}
 		wg.Add(1)
 		go func(w *spec.Worker) {
 			defer wg.Done()
 			var row weight.Row
 			for b := range work {
 				encodeBatch(w, enc, b, &row, o, ntext)
+				b.sums = w.TakeSums(b.sums)
 				select {
 				case done <- b:
 				case <-stop:
@@ -135,6 +143,9 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 				halt()
 				break
 			}
+			if tally != nil {
+				tally.AddAll(nb.sums)
+			}
 			rows += int64(len(nb.lines))
 			inBytes += nb.bytes
 			st.merge(&nb.st)
@@ -157,6 +168,9 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	ws := workers[0].Stats
 	for _, w := range workers[1:] {
 		ws.Merge(&w.Stats)
+	}
+	if tally != nil {
+		ws.Tally = tally
 	}
 	var as spec.AnalyzerStats
 	var dropped []countPair

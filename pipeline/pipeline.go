@@ -42,9 +42,10 @@ type batch struct {
 	nfield int
 	bytes  int64
 
-	out []byte
-	err error
-	st  batchStats
+	out  []byte
+	sums []uint64 // hashing mode: key sums for the run's tally
+	err  error
+	st   batchStats
 }
 
 type span struct {

@@ -199,9 +199,11 @@ type Worker struct {
 	fs      fieldState
 	addFn   func([]byte, int)
 	wordsFn func(int, []byte, [][]byte, int)
-	ids     []int32 // word ids of a chunk's tokens
-	cols    []int32 // columns of a chunk's n-grams of one order, or -1
-	key     []byte  // a key built for an n-gram looked up by ids
+	sums    []uint64       // hashing mode, see CollectSums
+	recent  hashing.Recent // repeats dropped from sums
+	ids     []int32        // word ids of a chunk's tokens
+	cols    []int32        // columns of a chunk's n-grams of one order, or -1
+	key     []byte         // a key built for an n-gram looked up by ids
 }
 
 // WorkerStats accumulates a worker's figures.
@@ -363,9 +365,34 @@ func (w *Worker) add(key []byte, code int) {
 		sign = -1
 	}
 	w.acc.Add(int(b), sign)
-	if w.Stats.Tally != nil {
+	if w.recent != nil {
+		if sum == 0 || !w.recent.Seen(sum) {
+			w.sums = append(w.sums, sum)
+		}
+	} else if w.Stats.Tally != nil {
 		w.Stats.Tally.Add(sum)
 	}
+}
+
+// CollectSums makes a hashing-mode worker that tracks keys keep the hash
+// sums of the keys it meets (fewer most repeats) for the caller to take
+// with TakeSums, instead of recording them in its own Stats.Tally (which
+// it drops): several workers' sums can then go to one Tally, in one
+// place.
+func (w *Worker) CollectSums() {
+	if w.Stats.Tally == nil {
+		return
+	}
+	w.Stats.Tally = nil
+	w.recent = hashing.NewRecent()
+}
+
+// TakeSums returns the sums collected since the last call (see
+// CollectSums), and keeps buf's storage for the next ones.
+func (w *Worker) TakeSums(buf []uint64) []uint64 {
+	s := w.sums
+	w.sums = buf[:0]
+	return s
 }
 
 // seen counts a key of the vocabulary, in column col.
