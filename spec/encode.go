@@ -204,6 +204,9 @@ type Worker struct {
 	ids     []int32        // word ids of a chunk's tokens
 	cols    []int32        // columns of a chunk's n-grams of one order, or -1
 	key     []byte         // a key built for an n-gram looked up by ids
+	// One is made per worker, next to the others: the padding keeps the
+	// fields it writes for every token off their cache lines.
+	_ [64]byte
 }
 
 // WorkerStats accumulates a worker's figures.

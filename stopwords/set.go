@@ -239,11 +239,19 @@ type WordCount struct {
 // A Filter is not safe for concurrent use: give each goroutine its own and
 // combine them with Merge.
 type Filter struct {
+	_      cacheLinePad
 	set    *Set
 	counts []int64 // per word of set, in set order
 	total  int64   // tokens dropped
 	seen   int64   // tokens looked at
+	_      cacheLinePad
 }
+
+// cacheLinePad keeps the counters of one goroutine's Filter off the cache
+// lines of another's: filters are small and made together, one per
+// worker, and a counter written for every token on a line shared with
+// another worker's costs both of them the line each time.
+type cacheLinePad [64]byte
 
 // NewFilter returns a Filter for s with zero counts.
 func (s *Set) NewFilter() *Filter {

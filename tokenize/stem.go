@@ -58,6 +58,9 @@ type Stemmer struct {
 	short  []stemSlot
 	nshort int
 	arena  []byte
+	// One is made per worker, next to the others: the padding keeps the
+	// fields it writes for every token off their cache lines.
+	_ [64]byte
 }
 
 // stemSlot is one cached short word: its bytes packed little-endian into

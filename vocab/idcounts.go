@@ -30,6 +30,9 @@ type IDCounts struct {
 	n        int
 	serial   int64     // current document
 	buf      []idEntry // added, not yet counted in slots
+	// One is made per worker, next to the others: the padding keeps the
+	// fields it writes for every token off their cache lines.
+	_ [64]byte
 }
 
 // idEntry is one occurrence waiting in the buffer: its key and document.

@@ -31,6 +31,9 @@ type Accumulator struct {
 	perm   []int32   // Finish scratch when a column does not fit 32 bits
 	counts []int32   // Finish scratch: bucket counts
 	tmp    []uint64  // Finish scratch: radix sort
+	// One is made per worker, next to the others: the padding keeps the
+	// fields it writes for every token off their cache lines.
+	_ [64]byte
 }
 
 const minSlots = 64
