@@ -1,6 +1,8 @@
 package tokenize
 
 import (
+	"encoding/binary"
+	"math/bits"
 	"unicode/utf8"
 
 	"github.com/blevesearch/segment"
@@ -102,6 +104,30 @@ func (t *Tokenizer) segmentASCII(d []byte, fn func([]byte, Kind)) {
 		start := i
 		var seen uint8
 		for {
+			// Eight characters at a time while the run goes on, then
+			// one at a time.
+			for i+8 <= n {
+				word, letter, digit, upper := classify8(binary.LittleEndian.Uint64(d[i:]))
+				k := 8
+				if end := ^word & hiBits; end != 0 {
+					k = bits.TrailingZeros64(end) / 8
+					m := uint64(1)<<(8*k) - 1
+					letter, digit, upper = letter&m, digit&m, upper&m
+				}
+				if letter != 0 {
+					seen |= clLetter
+				}
+				if digit != 0 {
+					seen |= clDigit
+				}
+				if upper != 0 {
+					seen |= clUpper
+				}
+				i += k
+				if k < 8 {
+					break
+				}
+			}
 			for i < n && asciiClass[d[i]]&clWord != 0 {
 				seen |= asciiClass[d[i]]
 				i++
@@ -147,4 +173,29 @@ func (t *Tokenizer) emitASCII(v []byte, upper bool, fn func([]byte, Kind)) {
 	}
 	t.stats.Tokens++
 	fn(tok, Letter)
+}
+
+// hiBits has the high bit of every byte of a word set.
+const hiBits = 0x8080808080808080
+
+// byteRange returns the high bit of each byte of x (all ASCII) that lies in
+// [a, b]: adding 0x80-a sets a byte's high bit when it is at least a, and
+// adding 0x7f-b when it is above b, without carries between bytes.
+func byteRange(x uint64, a, b byte) uint64 {
+	const ones = 0x0101010101010101
+	return (x + ones*uint64(0x80-a)) &^ (x + ones*uint64(0x7f-b)) & hiBits
+}
+
+// classify8 returns, for eight ASCII characters, the high bit of each one
+// that is a word character (letter, digit, underscore), a letter, a digit,
+// and an upper-case letter: the classes of asciiClass that segmentASCII
+// reads, eight at a time.
+func classify8(x uint64) (word, letter, digit, upper uint64) {
+	const ones = 0x0101010101010101
+	letter = byteRange(x|ones*0x20, 'a', 'z')
+	upper = byteRange(x, 'A', 'Z')
+	digit = byteRange(x, '0', '9')
+	z := x ^ ones*'_'
+	under := ^(z + ones*0x7f | z) & hiBits
+	return letter | digit | under, letter, digit, upper
 }

@@ -1,6 +1,7 @@
 package tokenize
 
 import (
+	"encoding/binary"
 	"math/rand/v2"
 	"strings"
 	"testing"
@@ -87,4 +88,28 @@ func FuzzASCIIFastPath(f *testing.F) {
 		sameAsSegmenter(t, rawOptions(), text)
 		sameAsSegmenter(t, DefaultOptions(), text)
 	})
+}
+
+// TestClassify8MatchesTable checks the eight-at-a-time classes against the
+// per-character table, for every ASCII character in every position.
+func TestClassify8MatchesTable(t *testing.T) {
+	for c := 0; c < 128; c++ {
+		for pos := 0; pos < 8; pos++ {
+			var b [8]byte
+			for j := range b {
+				b[j] = byte((c + 37*j) % 128)
+			}
+			b[pos] = byte(c)
+			word, letter, digit, upper := classify8(binary.LittleEndian.Uint64(b[:]))
+			for j, ch := range b {
+				bit := uint64(0x80) << (8 * j)
+				cl := asciiClass[ch]
+				if (word&bit != 0) != (cl&clWord != 0) || (letter&bit != 0) != (cl&clLetter != 0) ||
+					(digit&bit != 0) != (cl&clDigit != 0) || (upper&bit != 0) != (cl&clUpper != 0) {
+					t.Fatalf("character %#x at %d: word %v letter %v digit %v upper %v, table %08b",
+						ch, j, word&bit != 0, letter&bit != 0, digit&bit != 0, upper&bit != 0, cl)
+				}
+			}
+		}
+	}
 }
