@@ -110,20 +110,7 @@ func (b *Builder) EmitFrom(prefix []byte, tokens [][]byte, from int, fn func(key
 	if w := b.c.Words; w.On() {
 		for n := w.Min; n <= w.Max && n <= len(tokens); n++ {
 			for i := max(0, from-n+1); i+n <= len(tokens); i++ {
-				if len(prefix) == 0 {
-					if k, ok := Joined(tokens[i : i+n]); ok {
-						fn(k, Word, n)
-						continue
-					}
-				}
-				k := append(b.key[:0], prefix...)
-				k = append(k, tokens[i]...)
-				for _, t := range tokens[i+1 : i+n] {
-					k = append(k, ' ')
-					k = append(k, t...)
-				}
-				b.key = k
-				fn(k, Word, n)
+				fn(WordKey(&b.key, prefix, tokens[i:i+n]), Word, n)
 			}
 		}
 	}
@@ -151,6 +138,26 @@ func (b *Builder) EmitCharsFrom(prefix []byte, tokens [][]byte, from int, fn fun
 			}
 		}
 	}
+}
+
+// WordKey returns the key of the word n-gram of tokens: prefix, then the
+// tokens joined by one space. Without a prefix, and with the tokens lying
+// that way in one array (see Joined), it is a slice of that array;
+// otherwise it is built in *buf, whose storage is kept for the next key.
+func WordKey(buf *[]byte, prefix []byte, tokens [][]byte) []byte {
+	if len(prefix) == 0 {
+		if k, ok := Joined(tokens); ok {
+			return k
+		}
+	}
+	k := append((*buf)[:0], prefix...)
+	k = append(k, tokens[0]...)
+	for _, t := range tokens[1:] {
+		k = append(k, ' ')
+		k = append(k, t...)
+	}
+	*buf = k
+	return k
 }
 
 // Joined returns the tokens joined by one space without copying them, when

@@ -325,19 +325,7 @@ func (w *Worker) wordChunk(field int, prefix []byte, tokens [][]byte, from int) 
 				w.seen(col, n)
 				continue
 			}
-			k, joined := []byte(nil), false
-			if len(prefix) == 0 {
-				k, joined = ngram.Joined(tokens[i : i+n])
-			}
-			if !joined {
-				k = append(w.key[:0], prefix...)
-				k = append(k, tokens[i]...)
-				for _, t := range tokens[i+1 : i+n] {
-					k = append(k, ' ')
-					k = append(k, t...)
-				}
-				w.key = k
-			}
+			k := ngram.WordKey(&w.key, prefix, tokens[i:i+n])
 			if n > 2 || x.OddWordKeys() {
 				if col, ok = x.Lookup(k); ok {
 					w.seen(col, n)

@@ -323,19 +323,7 @@ func (w *LearnWorker) countWords(field int, prefix []byte, tokens [][]byte, from
 				w.ids.Add(field, ids[i], ids[i+1])
 				continue
 			}
-			k, joined := []byte(nil), false
-			if len(prefix) == 0 {
-				k, joined = ngram.Joined(tokens[i : i+n])
-			}
-			if !joined {
-				k = append(w.key[:0], prefix...)
-				k = append(k, tokens[i]...)
-				for _, t := range tokens[i+1 : i+n] {
-					k = append(k, ' ')
-					k = append(k, t...)
-				}
-				w.key = k
-			}
+			k := ngram.WordKey(&w.key, prefix, tokens[i:i+n])
 			w.counts.Add(k, n)
 		}
 	}

@@ -2,7 +2,7 @@ package stopwords
 
 import (
 	"cmp"
-	"encoding/binary"
+	"github.com/bowline/bowline/internal/wordpack"
 	"math/bits"
 	"slices"
 )
@@ -28,26 +28,7 @@ type shortSlot struct {
 }
 
 // pack loads up to 16 bytes into two little-endian words.
-func pack(b []byte) (lo, hi uint64) {
-	n := len(b)
-	if cap(b) >= 16 {
-		// Load 16 bytes at once (those past len are within cap) and
-		// clear the ones past len.
-		w := b[:16:16]
-		lo, hi = binary.LittleEndian.Uint64(w[:8]), binary.LittleEndian.Uint64(w[8:])
-		switch {
-		case n < 8:
-			lo &= 1<<(8*n) - 1
-			hi = 0
-		case n < 16:
-			hi &= 1<<(8*(n-8)) - 1
-		}
-		return lo, hi
-	}
-	var a [16]byte
-	copy(a[:], b)
-	return binary.LittleEndian.Uint64(a[:8]), binary.LittleEndian.Uint64(a[8:])
-}
+func pack(b []byte) (lo, hi uint64) { return wordpack.Pack16(b) }
 
 func (s *Set) slot(lo, hi uint64, n int) uint64 {
 	return ((lo ^ hi*0x9e3779b97f4a7c15 ^ uint64(n)) * 0xff51afd7ed558ccd) >> s.shift

@@ -2,7 +2,6 @@ package stopwords
 
 import (
 	"bytes"
-	"encoding/binary"
 	"errors"
 	"os"
 	"path/filepath"
@@ -436,22 +435,6 @@ func TestShortTableAgreesWithMap(t *testing.T) {
 		_, want := s.index[w]
 		if got := s.Contains([]byte(w)); got != want {
 			t.Fatalf("Contains(%q) = %v, want %v", w, got, want)
-		}
-	}
-}
-
-// TestPackIgnoresBytesPastLength: a token inside a larger buffer packs as
-// its own bytes do.
-func TestPackIgnoresBytesPastLength(t *testing.T) {
-	buf := []byte("abcdefghijklmnopQRSTUVWXYZQRSTUV")
-	for n := 0; n <= 16; n++ {
-		var a [16]byte
-		copy(a[:], buf[:n])
-		wlo, whi := binary.LittleEndian.Uint64(a[:8]), binary.LittleEndian.Uint64(a[8:])
-		for _, tok := range [][]byte{buf[:n], buf[:n:n]} {
-			if lo, hi := pack(tok); lo != wlo || hi != whi {
-				t.Errorf("n=%d cap=%d: %x %x, want %x %x", n, cap(tok), lo, hi, wlo, whi)
-			}
 		}
 	}
 }

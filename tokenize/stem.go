@@ -1,8 +1,8 @@
 package tokenize
 
 import (
-	"encoding/binary"
 	"fmt"
+	"github.com/bowline/bowline/internal/wordpack"
 	"strings"
 
 	"github.com/kljensen/snowball/english"
@@ -74,26 +74,7 @@ type stemSlot struct {
 
 const stemTableSize = 2 * DefaultStemCacheSize // at most half full
 
-func packWord(b []byte) (lo, hi uint64) {
-	n := len(b)
-	if cap(b) >= 16 {
-		// Load 16 bytes at once (those past len are within cap) and
-		// clear the ones past len.
-		w := b[:16:16]
-		lo, hi = binary.LittleEndian.Uint64(w[:8]), binary.LittleEndian.Uint64(w[8:])
-		switch {
-		case n < 8:
-			lo &= 1<<(8*n) - 1
-			hi = 0
-		case n < 16:
-			hi &= 1<<(8*(n-8)) - 1
-		}
-		return lo, hi
-	}
-	var a [16]byte
-	copy(a[:], b)
-	return binary.LittleEndian.Uint64(a[:8]), binary.LittleEndian.Uint64(a[8:])
-}
+func packWord(b []byte) (lo, hi uint64) { return wordpack.Pack16(b) }
 
 func stemSlotOf(lo, hi uint64, n int) uint64 {
 	return ((lo ^ hi*0x9e3779b97f4a7c15 ^ uint64(n)) * 0xff51afd7ed558ccd) >> (64 - 17)

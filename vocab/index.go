@@ -1,9 +1,9 @@
 package vocab
 
 import (
-	"encoding/binary"
 	"errors"
 	"fmt"
+	"github.com/bowline/bowline/internal/wordpack"
 	"math"
 	"runtime"
 	"strings"
@@ -196,29 +196,12 @@ func (x *Index) newID() int32 {
 	return id
 }
 
-// pack8 packs a word of 1 to 8 bytes into a non-zero integer, little
-// endian, zero padded: exact, because tokens hold no NUL byte.
-func pack8[T string | []byte](w T) uint64 {
-	var k uint64
-	for i := len(w) - 1; i >= 0; i-- {
-		k = k<<8 | uint64(w[i])
-	}
-	return k
-}
+// pack8 packs a word of 1 to 8 bytes into a non-zero integer (see
+// internal/wordpack).
+func pack8(w string) uint64 { return wordpack.Pack8String(w) }
 
-// packToken is pack8 for a token of 1 to 8 bytes, loading 8 bytes at once
-// when the slice's capacity allows (the bytes past its length are
-// cleared).
-func packToken(w []byte) uint64 {
-	if cap(w) >= 8 {
-		k := binary.LittleEndian.Uint64(w[:8:8])
-		if n := len(w); n < 8 {
-			k &= 1<<(8*n) - 1
-		}
-		return k
-	}
-	return pack8(w)
-}
+// packToken is pack8 for a token.
+func packToken(w []byte) uint64 { return wordpack.Pack8(w) }
 
 // Word returns the id of a token, or -1 when no word unigram or bigram key
 // of the vocabulary holds it (then no such key holds the token). It does
@@ -286,10 +269,7 @@ func (p *packedPairs) home(k uint64) int {
 
 // init sizes p for n pairs.
 func (p *packedPairs) init(n int) {
-	size := 16
-	for size < 2*n {
-		size <<= 1
-	}
+	size := tableSize(n)
 	p.slots = hugemem.Make[uint64](size)
 	p.shift = uint(64 - log2(size))
 }
@@ -364,10 +344,7 @@ type pairSlot struct {
 
 // init sizes the table for n keys.
 func (t *PairTable) init(n int) {
-	size := 16
-	for size < 2*n {
-		size <<= 1
-	}
+	size := tableSize(n)
 	t.slots = hugemem.Make[pairSlot](size)
 	t.shift = uint(64 - log2(size))
 	t.n = 0
@@ -446,6 +423,16 @@ func (t *PairTable) grow() {
 func (t *PairTable) Free() {
 	hugemem.Free(t.slots)
 	*t = PairTable{}
+}
+
+// tableSize is the number of slots of an open-addressing table for n keys:
+// a power of two, at least 16, at most half full.
+func tableSize(n int) int {
+	size := 16
+	for size < 2*n {
+		size <<= 1
+	}
+	return size
 }
 
 func log2(n int) int {

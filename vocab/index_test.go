@@ -119,16 +119,3 @@ func TestPairTableAgainstMap(t *testing.T) {
 		}
 	}
 }
-
-// TestPackTokenIgnoresBytesPastLength: packing a token that sits in a
-// larger buffer (as tokens do) gives the packing of its bytes alone.
-func TestPackTokenIgnoresBytesPastLength(t *testing.T) {
-	buf := []byte("abcdefghXYZXYZXY")
-	for n := 1; n <= 8; n++ {
-		for _, tok := range [][]byte{buf[:n], buf[:n:n], append([]byte(nil), buf[:n]...)} {
-			if got, want := packToken(tok), pack8(string(buf[:n])); got != want {
-				t.Errorf("n=%d cap=%d: %x, want %x", n, cap(tok), got, want)
-			}
-		}
-	}
-}
