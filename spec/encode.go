@@ -87,6 +87,7 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 		if e.hasher, err = hashing.New(h.Width, h.Seed, h.Signed); err != nil {
 			return nil, err
 		}
+		e.words = e.analysis.ngrams.Words
 		e.columns = int(h.Width)
 		if idfMode != weight.IDFNone {
 			e.idfDef = c.Weights.IDFDefault
@@ -199,11 +200,13 @@ type Worker struct {
 	fs      fieldState
 	addFn   func([]byte, int)
 	wordsFn func(int, []byte, [][]byte, int)
-	sums    []uint64       // hashing mode, see CollectSums
-	recent  hashing.Recent // repeats dropped from sums
-	ids     []int32        // word ids of a chunk's tokens
-	cols    []int32        // columns of a chunk's n-grams of one order, or -1
-	key     []byte         // a key built for an n-gram looked up by ids
+	// hashWordsFn hashes the word n-grams of a chunk (hashing mode).
+	hashWordsFn func(int, []byte, [][]byte, int)
+	sums        []uint64       // hashing mode, see CollectSums
+	recent      hashing.Recent // repeats dropped from sums
+	ids         []int32        // word ids of a chunk's tokens
+	cols        []int32        // columns of a chunk's n-grams of one order, or -1
+	key         []byte         // a key built for an n-gram looked up by ids
 	// One is made per worker, next to the others: the padding keeps the
 	// fields it writes for every token off their cache lines.
 	_ [64]byte
@@ -236,7 +239,7 @@ const MaxTrackedUnseen = 200000
 // (distinct keys, unseen keys, collisions) as well as counts.
 func (e *Encoder) NewWorker(track bool) *Worker {
 	w := &Worker{e: e, z: e.analysis.NewAnalyzer(), acc: weight.NewAccumulator(), track: track}
-	w.addFn, w.wordsFn = w.add, w.wordChunk
+	w.addFn, w.wordsFn, w.hashWordsFn = w.add, w.wordChunk, w.hashWords
 	if track && e.index != nil {
 		w.Stats.Seen = make([]uint64, (e.nterms+63)/64)
 		w.Stats.orders = e.orders
@@ -262,9 +265,12 @@ func (w *Worker) Analyzer() *Analyzer { return w.z }
 func (w *Worker) Encode(texts [][]byte, dst *weight.Row) DocStats {
 	w.acc.Reset()
 	w.doc = DocStats{}
-	if w.e.wordIDs {
+	switch {
+	case w.e.wordIDs:
 		w.z.AnalyzeTokens(texts, w.wordsFn, w.addFn)
-	} else {
+	case w.e.hasher != nil && w.e.words.On():
+		w.z.AnalyzeTokens(texts, w.hashWordsFn, w.addFn)
+	default:
 		w.z.Analyze(texts, w.addFn)
 	}
 	e := w.e
@@ -347,6 +353,24 @@ func (w *Worker) add(key []byte, code int) {
 		}
 		return
 	}
+	w.hashKey(key, code)
+}
+
+// hashWords hashes the word n-grams of a chunk of tokens (see
+// Analyzer.AnalyzeTokens) in the order Analyze emits them, without a call
+// through the n-gram builder for each key.
+func (w *Worker) hashWords(_ int, prefix []byte, tokens [][]byte, from int) {
+	r := w.e.words
+	for n := r.Min; n <= r.Max && n <= len(tokens); n++ {
+		for i := max(0, from-n+1); i+n <= len(tokens); i++ {
+			w.hashKey(ngram.WordKey(&w.key, prefix, tokens[i:i+n]), n)
+		}
+	}
+}
+
+// hashKey counts a key in hashing mode.
+func (w *Worker) hashKey(key []byte, code int) {
+	e := w.e
 	w.doc.Features++
 	w.Stats.Features[code]++
 	sum := w.h.Sum(key)

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
@@ -220,6 +221,57 @@ func TestWordIDCountingMatchesKeyCounting(t *testing.T) {
 			}
 			if got.Seen.Keys != int64(ref.Len()) {
 				t.Errorf("seen keys %d, want %d", got.Seen.Keys, ref.Len())
+			}
+		}
+	}
+}
+
+// TestHashingChunkPathMatchesAnalyze checks the hashing encoder's loop over
+// a chunk's word n-grams against hashing every key Analyze emits, one by
+// one (signed buckets summed per column), for one and two text fields,
+// word orders 1 to 3 and character n-grams.
+func TestHashingChunkPathMatchesAnalyze(t *testing.T) {
+	texts := wordIDCorpus(t, 300)
+	for _, fields := range []int{1, 2} {
+		for _, ng := range []ngram.Config{{Words: ngram.Range{Min: 1, Max: 3}}, {Words: ngram.Range{Min: 2, Max: 2}, Chars: ngram.Range{Min: 2, Max: 3}}} {
+			s := settings(ModeHashing)
+			s.NGrams = ng
+			s.TF, s.IDF, s.Norm = weight.TFCount, weight.IDFNone, weight.NormNone
+			s.Input.Text = []string{"title", "body"}[:fields]
+			sp := learn(t, s)
+			e, err := NewEncoder(sp)
+			if err != nil {
+				t.Fatal(err)
+			}
+			w := e.NewWorker(false)
+			z := e.Analysis().NewAnalyzer()
+			h := e.hasher
+			var row weight.Row
+			for i := range texts {
+				d := [][]byte{[]byte(texts[i])}
+				if fields == 2 {
+					d = append(d, []byte(texts[(i*5)%len(texts)]))
+				}
+				ds := w.Encode(d, &row)
+				want := map[int]float64{}
+				n := 0
+				z.Analyze(d, func(key []byte, _ int) {
+					n++
+					sum := h.Sum(key)
+					v := 1.0
+					if h.Signed && sum>>63 == 1 {
+						v = -1
+					}
+					want[int(hashing.BucketOf(sum, h.Width))] += v
+				})
+				maps.DeleteFunc(want, func(_ int, v float64) bool { return v == 0 })
+				got := map[int]float64{}
+				for j, c := range row.Indices {
+					got[c] = row.Values[j]
+				}
+				if !maps.Equal(got, want) || ds.Features != n {
+					t.Fatalf("%d fields %v doc %d: row %v (%d keys), want %v (%d)", fields, ng, i, got, ds.Features, want, n)
+				}
 			}
 		}
 	}
