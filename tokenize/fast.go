@@ -20,10 +20,7 @@ func (t *Tokenizer) segmentFast(data []byte, fn func([]byte, Kind)) {
 	}
 	for len(data) > 0 {
 		// ASCII prefix [0, q).
-		q := 0
-		for q < len(data) && data[q] < utf8.RuneSelf {
-			q++
-		}
+		q := asciiPrefix(data)
 		if q == len(data) {
 			t.segmentASCII(data, fn)
 			return
@@ -198,4 +195,38 @@ func classify8(x uint64) (word, letter, digit, upper uint64) {
 	z := x ^ ones*'_'
 	under := ^(z + ones*0x7f | z) & hiBits
 	return letter | digit | under, letter, digit, upper
+}
+
+// asciiPrefix returns the length of the ASCII prefix of d, looking at eight
+// bytes at a time.
+func asciiPrefix(d []byte) int {
+	i := 0
+	for ; i+8 <= len(d); i += 8 {
+		if binary.LittleEndian.Uint64(d[i:])&hiBits != 0 {
+			break
+		}
+	}
+	for i < len(d) && d[i] < utf8.RuneSelf {
+		i++
+	}
+	return i
+}
+
+// asciiNoNULPrefix returns the length of the prefix of d that is ASCII
+// without NUL bytes, looking at eight bytes at a time.
+func asciiNoNULPrefix(d []byte) int {
+	const ones = 0x0101010101010101
+	i := 0
+	for ; i+8 <= len(d); i += 8 {
+		w := binary.LittleEndian.Uint64(d[i:])
+		// A byte with its high bit set, or a zero byte (w-ones borrows
+		// into the high bit of a zero byte that had it clear).
+		if (w|(w-ones)&^w)&hiBits != 0 {
+			break
+		}
+	}
+	for i < len(d) && d[i] < utf8.RuneSelf && d[i] != 0 {
+		i++
+	}
+	return i
 }

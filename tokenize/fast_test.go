@@ -113,3 +113,31 @@ func TestClassify8MatchesTable(t *testing.T) {
 		}
 	}
 }
+
+// TestASCIIPrefixes checks the eight-at-a-time prefix scans against plain
+// byte loops, with the first non-ASCII or NUL byte at every position.
+func TestASCIIPrefixes(t *testing.T) {
+	for n := 0; n < 40; n++ {
+		for pos := 0; pos <= n; pos++ {
+			for _, bad := range []byte{0x80, 0xff, 0xc3, 0} {
+				d := []byte(strings.Repeat("a\x01\x7f", n)[:n])
+				if pos < n {
+					d[pos] = bad
+				}
+				wantA, wantN := 0, 0
+				for wantA < len(d) && d[wantA] < 0x80 {
+					wantA++
+				}
+				for wantN < len(d) && d[wantN] < 0x80 && d[wantN] != 0 {
+					wantN++
+				}
+				if got := asciiPrefix(d); got != wantA {
+					t.Errorf("asciiPrefix(%q) = %d, want %d", d, got, wantA)
+				}
+				if got := asciiNoNULPrefix(d); got != wantN {
+					t.Errorf("asciiNoNULPrefix(%q) = %d, want %d", d, got, wantN)
+				}
+			}
+		}
+	}
+}

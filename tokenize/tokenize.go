@@ -188,10 +188,7 @@ func splitPoint(data []byte, target int) int {
 // itself when nothing changes, else a slice of *clean or *normed.
 // st, if not nil, receives the counts of repaired bytes.
 func (t *Tokenizer) prepare(text []byte, clean, normed *[]byte, st *Stats) []byte {
-	i := 0
-	for i < len(text) && text[i] < utf8.RuneSelf && text[i] != 0 {
-		i++
-	}
+	i := asciiNoNULPrefix(text)
 	if i == len(text) {
 		return text // ASCII without NUL: valid and in every normal form
 	}
