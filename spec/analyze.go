@@ -164,26 +164,20 @@ func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, code int)) {
 // AnalyzeTokens is Analyze for a caller that forms the word n-grams itself
 // (looking them up through word ids, say). For each text field and each
 // chunk of its kept tokens, words gets the field's index, its key prefix
-// (see Prefix), the tokens and from: tokens[:from] are context, passed
-// with the chunk before, for the word n-grams that reach into
-// tokens[from:]. The character n-gram keys of
+// ("field|" with several text fields, else empty), the tokens and from:
+// tokens[:from] are context, passed with the chunk before, for the word
+// n-grams that reach into tokens[from:]. The character n-gram keys of
 // tokens[from:] go to chars right after, so keys come in Analyze's order
 // when words emits, for each word order, its n-grams ending at or after
-// from, left to right.
+// from, left to right (ngram.WordKey forms their keys). The tokens are
+// only valid during the call and must not be modified or appended to:
+// each reaches, within its capacity, over the next ones.
 func (z *Analyzer) AnalyzeTokens(texts [][]byte, words func(field int, prefix []byte, tokens [][]byte, from int), chars func(key []byte, code int)) {
 	emit := func(key []byte, kind ngram.Kind, order int) { chars(key, OrderCode(kind, order)) }
 	z.run(texts, func(field int, prefix []byte, tokens [][]byte, from int) {
 		words(field, prefix, tokens, from)
 		z.ngr.EmitCharsFrom(prefix, tokens, from, emit)
 	})
-}
-
-// Prefix returns the key prefix of text field i ("" with one text field).
-func (z *Analyzer) Prefix(i int) string {
-	if z.prefixes != nil && i < len(z.prefixes) {
-		return string(z.prefixes[i])
-	}
-	return ""
 }
 
 // run tokenizes texts and hands each chunk of kept tokens to sink.
