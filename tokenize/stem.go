@@ -56,6 +56,7 @@ type Stemmer struct {
 	// keyed by the packed bytes themselves, so that a hit hashes no
 	// string; their stems live in arena.
 	short  []stemSlot
+	shift  uint // 64 - log2(len(short))
 	nshort int
 	arena  []byte
 	// One is made per worker, next to the others: the padding keeps the
@@ -67,17 +68,44 @@ type Stemmer struct {
 // lo and hi, its length, and where its stem lies in the arena.
 type stemSlot struct {
 	lo, hi uint64
-	n      int32 // 0 = empty
 	off    int32
-	slen   int32
+	slen   uint16
+	n      uint8 // 0 = empty
 }
 
 const stemTableSize = 2 * DefaultStemCacheSize // at most half full
 
+// The short-word table starts at 2^minStemTableBits slots and doubles as
+// it fills, up to stemTableSize: a table no larger than its words keeps
+// the frequent ones in fewer cache lines, which matters most when several
+// workers' tables share a cache.
+const (
+	minStemTableBits = 12
+	minStemTable     = 1 << minStemTableBits
+)
+
+// growShort doubles the short-word table, placing every word again.
+func (s *Stemmer) growShort() {
+	old := s.short
+	s.short = make([]stemSlot, 2*len(old))
+	s.shift--
+	mask := uint64(len(s.short) - 1)
+	for _, e := range old {
+		if e.n == 0 {
+			continue
+		}
+		i := stemSlotOf(e.lo, e.hi, int(e.n), s.shift)
+		for s.short[i].n != 0 {
+			i = (i + 1) & mask
+		}
+		s.short[i] = e
+	}
+}
+
 func packWord(b []byte) (lo, hi uint64) { return wordpack.Pack16(b) }
 
-func stemSlotOf(lo, hi uint64, n int) uint64 {
-	return ((lo ^ hi*0x9e3779b97f4a7c15 ^ uint64(n)) * 0xff51afd7ed558ccd) >> (64 - 17)
+func stemSlotOf(lo, hi uint64, n int, shift uint) uint64 {
+	return ((lo ^ hi*0x9e3779b97f4a7c15 ^ uint64(n)) * 0xff51afd7ed558ccd) >> shift
 }
 
 // entries is the number of words cached.
@@ -99,7 +127,7 @@ func NewStemmer(lang string) (*Stemmer, error) {
 	for _, sl := range stemLangs {
 		if l == sl.code || l == sl.name {
 			return &Stemmer{lang: sl, cache: make(map[string][]byte), limit: DefaultStemCacheSize,
-				short: make([]stemSlot, stemTableSize)}, nil
+				short: make([]stemSlot, minStemTable), shift: 64 - minStemTableBits}, nil
 		}
 	}
 	return nil, fmt.Errorf("tokenize: no stemmer for language %q (known: %s)", lang, strings.Join(StemLanguages(), ", "))
@@ -124,13 +152,14 @@ func (s *Stemmer) Stem(tok []byte) []byte {
 	if n > 0 && n <= 16 {
 		lo, hi = packWord(tok)
 		mask := uint64(len(s.short) - 1)
-		for slot = stemSlotOf(lo, hi, n) & mask; ; slot = (slot + 1) & mask {
+		for slot = stemSlotOf(lo, hi, n, s.shift); ; slot = (slot + 1) & mask {
 			e := &s.short[slot]
 			if e.n == 0 {
 				break
 			}
 			if e.lo == lo && e.hi == hi && int(e.n) == n {
-				return s.arena[e.off : e.off+e.slen : e.off+e.slen]
+				end := e.off + int32(e.slen)
+				return s.arena[e.off:end:end]
 			}
 		}
 	} else if st, ok := s.cache[string(tok)]; ok {
@@ -140,15 +169,20 @@ func (s *Stemmer) Stem(tok []byte) []byte {
 		s.reset()
 		if n > 0 && n <= 16 {
 			// The table was emptied: find the word's slot again.
-			mask := uint64(len(s.short) - 1)
-			slot = stemSlotOf(lo, hi, n) & mask
+			slot = stemSlotOf(lo, hi, n, s.shift)
 		}
 	}
 	st := s.compute(tok)
-	if n > 0 && n <= 16 && len(s.arena)+len(st) < 1<<31 {
+	if n > 0 && n <= 16 && len(s.arena)+len(st) < 1<<31 && len(st) < 1<<16 {
+		if 2*(s.nshort+1) > len(s.short) && len(s.short) < stemTableSize {
+			s.growShort()
+			mask := uint64(len(s.short) - 1)
+			for slot = stemSlotOf(lo, hi, n, s.shift); s.short[slot].n != 0; slot = (slot + 1) & mask {
+			}
+		}
 		off := len(s.arena)
 		s.arena = append(s.arena, st...)
-		s.short[slot] = stemSlot{lo: lo, hi: hi, n: int32(n), off: int32(off), slen: int32(len(st))}
+		s.short[slot] = stemSlot{lo: lo, hi: hi, n: uint8(n), off: int32(off), slen: uint16(len(st))}
 		s.nshort++
 		return s.arena[off : off+len(st) : off+len(st)]
 	}
