@@ -386,9 +386,10 @@ func oovFigures(ws *spec.WorkerStats, top int) *report.OOV {
 	if top == 0 {
 		top = 10
 	}
-	pairs := make([]countPair, 0, len(ws.TopUnseen))
-	for k, v := range ws.TopUnseen {
-		pairs = append(pairs, countPair{k, v})
+	var pairs []countPair
+	if ws.TopUnseen != nil {
+		pairs = make([]countPair, 0, ws.TopUnseen.Len())
+		ws.TopUnseen.Each(func(k string, v int64) { pairs = append(pairs, countPair{k, v}) })
 	}
 	o.TopUnseen = topCounts(pairs, top)
 	return o

@@ -224,7 +224,7 @@ type WorkerStats struct {
 	// (nil unless the worker tracks keys).
 	UnseenKeys *[MaxOrderCode + 1]*hashing.Tally
 	// TopUnseen counts unseen keys (capped at MaxTrackedUnseen keys).
-	TopUnseen map[string]int64
+	TopUnseen *UnseenCounts
 	// Tally is the hashing-mode collision account.
 	Tally *hashing.Tally
 	// orders is the order code of each vocabulary column.
@@ -244,7 +244,7 @@ func (e *Encoder) NewWorker(track bool) *Worker {
 		w.Stats.Seen = make([]uint64, (e.nterms+63)/64)
 		w.Stats.orders = e.orders
 		w.Stats.UnseenKeys = new([MaxOrderCode + 1]*hashing.Tally)
-		w.Stats.TopUnseen = map[string]int64{}
+		w.Stats.TopUnseen = NewUnseenCounts()
 	}
 	if e.hasher != nil {
 		w.h = e.hasher.Clone()
@@ -429,10 +429,9 @@ func (w *Worker) unseenKey(key []byte, code int) {
 	w.doc.Unseen++
 	w.Stats.Unseen[code]++
 	if w.track {
-		addKey(w.Stats.UnseenKeys, code, xxhash.Sum64(key))
-		if n, ok := w.Stats.TopUnseen[string(key)]; ok || len(w.Stats.TopUnseen) < MaxTrackedUnseen {
-			w.Stats.TopUnseen[string(key)] = n + 1
-		}
+		sum := xxhash.Sum64(key)
+		addKey(w.Stats.UnseenKeys, code, sum)
+		w.Stats.TopUnseen.Add(sum, key, 1)
 	}
 	switch e.unseen.Mode {
 	case vocab.UnseenCount:
@@ -494,11 +493,7 @@ func (s *WorkerStats) Merge(o *WorkerStats) {
 			s.Seen[i] |= b
 		}
 		mergeSets(s.UnseenKeys, o.UnseenKeys)
-		for k, v := range o.TopUnseen {
-			if n, ok := s.TopUnseen[k]; ok || len(s.TopUnseen) < MaxTrackedUnseen {
-				s.TopUnseen[k] = n + v
-			}
-		}
+		s.TopUnseen.Merge(o.TopUnseen)
 	}
 	if s.Tally != nil && o.Tally != nil {
 		s.Tally.Merge(o.Tally)
