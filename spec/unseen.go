@@ -10,8 +10,13 @@ import "slices"
 // Two distinct keys with equal sums would count as one (about n²/2^65 for
 // n keys: below 10⁻⁹ at the MaxTrackedUnseen cap).
 //
-// It holds at most MaxTrackedUnseen keys: once full, it counts only the
-// keys it holds. Not safe for concurrent use.
+// It holds at most MaxTrackedUnseen keys. When a new key finds it full, it
+// forgets the half of its keys with the lowest counts (those at or below
+// the median of a sample of 4096 counts) and goes on: a key that is
+// frequent late in a long corpus still gets in, and the counts it reports
+// are exact for keys never forgotten and lower bounds for the others (they
+// miss what was counted before a key was forgotten). Not safe for
+// concurrent use.
 type UnseenCounts struct {
 	slots []unseenSlot // open addressing on sum, at most half full
 	shift uint
@@ -64,6 +69,11 @@ func (u *UnseenCounts) Add(sum uint64, key []byte, count int64) {
 		}
 	}
 	if u.n >= MaxTrackedUnseen || len(u.text)+len(key) > 1<<32-1 {
+		before := u.n
+		u.prune()
+		if u.n < before {
+			u.Add(sum, key, count)
+		}
 		return
 	}
 	off := len(u.text)
@@ -89,7 +99,45 @@ func (u *UnseenCounts) Add(sum uint64, key []byte, count int64) {
 	}
 }
 
-// Merge adds o's counts to u (within u's cap).
+// prune forgets the keys whose count is at most the (sampled) median
+// count, and compacts the text arena.
+func (u *UnseenCounts) prune() {
+	// The median of an evenly spaced sample of the counts is close
+	// enough, and costs a small sort instead of one over every key.
+	step := max(1, u.n/4096)
+	counts := make([]int64, 0, u.n/step+1)
+	i := 0
+	for _, s := range u.slots {
+		if s.sum != 0 {
+			if i%step == 0 {
+				counts = append(counts, s.count)
+			}
+			i++
+		}
+	}
+	slices.Sort(counts)
+	median := counts[len(counts)/2]
+	old, text := u.slots, u.text
+	u.init(len(old))
+	u.text = make([]byte, 0, len(text)/2+64)
+	mask := len(u.slots) - 1
+	for _, s := range old {
+		if s.sum == 0 || s.count <= median {
+			continue
+		}
+		off := len(u.text)
+		u.text = append(u.text, text[s.off:s.off+s.len]...)
+		s.off = uint32(off)
+		j := int((s.sum * 0x9E3779B97F4A7C15) >> u.shift)
+		for u.slots[j].sum != 0 {
+			j = (j + 1) & mask
+		}
+		u.slots[j] = s
+		u.n++
+	}
+}
+
+// Merge adds o's counts to u (pruning as Add does).
 func (u *UnseenCounts) Merge(o *UnseenCounts) {
 	for _, s := range o.slots {
 		if s.sum != 0 {

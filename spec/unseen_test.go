@@ -39,23 +39,28 @@ func TestUnseenCountsAgainstMap(t *testing.T) {
 		t.Fatalf("%d keys counted, want %d", len(got), len(want))
 	}
 
-	// The cap: keys past MaxTrackedUnseen are not counted, the others are.
+	// Past the cap: the one-off keys are forgotten, a key frequent late in
+	// the stream is counted exactly from its first occurrence, and a key
+	// frequent early keeps its count.
 	c := NewUnseenCounts()
-	for i := range MaxTrackedUnseen + 10 {
-		k := fmt.Sprint(i)
-		c.Add(xxhash.Sum64String(k), []byte(k), 1)
+	add := func(k string, n int64) { c.Add(xxhash.Sum64String(k), []byte(k), n) }
+	add("early", 50)
+	for i := range 3 * MaxTrackedUnseen {
+		add(fmt.Sprint(i), 1)
 	}
-	c.Add(xxhash.Sum64String("7"), []byte("7"), 5)
-	if c.Len() != MaxTrackedUnseen {
+	for range 1000 {
+		add("late", 1)
+	}
+	if c.Len() > MaxTrackedUnseen {
 		t.Fatalf("Len %d past the cap %d", c.Len(), MaxTrackedUnseen)
 	}
-	n := int64(0)
+	found := map[string]int64{}
 	c.Each(func(k string, v int64) {
-		if k == "7" {
-			n = v
+		if k == "early" || k == "late" {
+			found[k] = v
 		}
 	})
-	if n != 6 {
-		t.Fatalf("a key held before the cap counts %d, want 6", n)
+	if found["early"] != 50 || found["late"] != 1000 {
+		t.Fatalf("frequent keys after pruning: %v, want early 50 and late 1000", found)
 	}
 }
