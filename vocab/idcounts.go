@@ -21,11 +21,11 @@ import (
 // combine them with Merge.
 type IDCounts struct {
 	prefixes []string
-	short    PairTable        // words of up to 8 bytes, packed -> id
+	short    pairTable        // words of up to 8 bytes, packed -> id
 	long     map[string]int32 // longer words -> id
 	text     []byte           // word bytes, one after another
 	ends     []uint32         // word id i is text[ends[i-1]:ends[i]]
-	slots    []idSlot         // open addressing on PairKey
+	slots    []idSlot         // open addressing on pairKey
 	shift    uint
 	n        int
 	serial   int64     // current document
@@ -46,14 +46,14 @@ type idEntry struct {
 // between the tokenizer's work.
 const idBuffer = 4096
 
-// idSlot is one counted key: a word unigram (PairKey with b = -1) or
+// idSlot is one counted key: a word unigram (pairKey with b = -1) or
 // bigram, its occurrences, documents, and the last document counted.
 type idSlot struct {
 	key               uint64
 	count, docs, last int64
 }
 
-// maxIDWords is the most words an IDCounts gives ids to (PairKey packs ids
+// maxIDWords is the most words an IDCounts gives ids to (pairKey packs ids
 // below 2^28); later words get none and their keys must be counted by
 // bytes.
 const maxIDWords = maxIndexWords
@@ -129,9 +129,6 @@ func (c *IDCounts) word(id int32) []byte {
 	return c.text[start:c.ends[id]]
 }
 
-// Words returns the number of words given ids.
-func (c *IDCounts) Words() int { return len(c.ends) }
-
 // Len returns the number of distinct keys counted.
 func (c *IDCounts) Len() int {
 	c.flush()
@@ -142,7 +139,7 @@ func (c *IDCounts) Len() int {
 // bigram of words a, b, in field, in the current document. a and b are
 // ids from Word, not -1 (except b for a unigram).
 func (c *IDCounts) Add(field int, a, b int32) {
-	c.buf = append(c.buf, idEntry{PairKey(field, a, b), uint64(c.serial)})
+	c.buf = append(c.buf, idEntry{pairKey(field, a, b), uint64(c.serial)})
 	if len(c.buf) >= idBuffer {
 		c.flush()
 	}
@@ -257,12 +254,12 @@ func (c *IDCounts) Merge(o *IDCounts, spill *Counts) {
 			spill.addCounted(string(key), order(b), s.count, s.docs)
 			continue
 		}
-		c.addCounted(PairKey(field, na, nb), s.count, s.docs)
+		c.addCounted(pairKey(field, na, nb), s.count, s.docs)
 	}
 	o.init(1 << 10)
 }
 
-// unpackPair reverses PairKey.
+// unpackPair reverses pairKey.
 func unpackPair(k uint64) (field int, a, b int32) {
 	return int(k >> 56), int32(k>>28&(1<<28-1)) - 1, int32(k&(1<<28-1)) - 1
 }

@@ -24,17 +24,17 @@ import (
 // concurrent use once built.
 type Index struct {
 	prefixes []string         // field prefixes, in field order ("" for one unprefixed field)
-	short    PairTable        // words of up to 8 bytes, packed (see pack8) -> id
+	short    pairTable        // words of up to 8 bytes, packed (see pack8) -> id
 	words    map[string]int32 // longer words of word unigram and bigram keys -> id
 	nwords   int
 	uni      []int32          // [field*nwords + id] -> column, or -1
-	pairs    PairTable        // PairKey(field, id1, id2) -> column
+	pairs    pairTable        // pairKey(field, id1, id2) -> column
 	packed   packedPairs      // the same in 8 bytes a pair, when it fits
 	rest     map[string]int32 // every other key -> column
 	odd      bool             // rest holds word unigram or bigram keys
 }
 
-// maxIndexWords and maxIndexFields bound what PairKey can pack.
+// maxIndexWords and maxIndexFields bound what pairKey can pack.
 const (
 	maxIndexWords  = 1<<28 - 1
 	maxIndexFields = 1 << 8
@@ -107,7 +107,7 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 	}
 	if x.nwords > maxIndexWords {
 		// Too many words to pack: look everything up by its bytes.
-		x.words, x.short, x.nwords, x.uni = map[string]int32{}, PairTable{}, 0, nil
+		x.words, x.short, x.nwords, x.uni = map[string]int32{}, pairTable{}, 0, nil
 		for col, key := range keys {
 			if _, ok := x.rest[key]; ok {
 				return nil, dup(key, col)
@@ -145,14 +145,14 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 		if pack {
 			added = x.packed.insert(p.a, p.b, p.col)
 		} else {
-			added = x.pairs.Insert(PairKey(p.field, p.a, p.b), p.col)
+			added = x.pairs.Insert(pairKey(p.field, p.a, p.b), p.col)
 		}
 		if !added {
 			return nil, dup(keys[p.col], int(p.col))
 		}
 	}
 	// The tables may live outside the Go heap: give them back with x.
-	runtime.AddCleanup(x, func(t [2]PairTable) { t[0].Free(); t[1].Free() }, [2]PairTable{x.short, x.pairs})
+	runtime.AddCleanup(x, func(t [2]pairTable) { t[0].Free(); t[1].Free() }, [2]pairTable{x.short, x.pairs})
 	runtime.AddCleanup(x, func(p []uint64) { hugemem.Free(p) }, x.packed.slots)
 	return x, nil
 }
@@ -240,7 +240,7 @@ func (x *Index) Bigram(field int, a, b int32) int32 {
 	if x.packed.slots != nil {
 		return x.packed.get(a, b)
 	}
-	if c, ok := x.pairs.Get(PairKey(field, a, b)); ok {
+	if c, ok := x.pairs.Get(pairKey(field, a, b)); ok {
 		return c
 	}
 	return -1
@@ -248,7 +248,7 @@ func (x *Index) Bigram(field int, a, b int32) int32 {
 
 // packedPairs maps the word-id pairs of one field to columns in one 64-bit
 // word a pair: the pair's 40 bits above the column's 24, open addressing
-// with linear probing, at most half full. Half the size of a PairTable,
+// with linear probing, at most half full. Half the size of a pairTable,
 // it keeps more of a large vocabulary's bigrams in the cache.
 type packedPairs struct {
 	slots []uint64
@@ -322,16 +322,16 @@ func (x *Index) OddWordKeys() bool { return x.odd }
 // than 256 fields, where Lookup finds every key).
 func (x *Index) Packed() bool { return x.uni != nil }
 
-// PairKey packs a field (below 256) and two word ids (below 2^28) into the
-// key of a PairTable. It is never 0.
-func PairKey(field int, a, b int32) uint64 {
+// pairKey packs a field (below 256) and two word ids (below 2^28) into the
+// key of a pairTable. It is never 0.
+func pairKey(field int, a, b int32) uint64 {
 	return uint64(field)<<56 | uint64(a+1)<<28 | uint64(b+1)
 }
 
-// PairTable maps non-zero 64-bit keys to int32 values: an open-addressing
+// pairTable maps non-zero 64-bit keys to int32 values: an open-addressing
 // table with linear probing, at most half full. Keys and values sit side by
 // side, so a probe costs one cache line.
-type PairTable struct {
+type pairTable struct {
 	slots []pairSlot
 	shift uint
 	n     int
@@ -343,7 +343,7 @@ type pairSlot struct {
 }
 
 // init sizes the table for n keys.
-func (t *PairTable) init(n int) {
+func (t *pairTable) init(n int) {
 	size := tableSize(n)
 	t.slots = hugemem.Make[pairSlot](size)
 	t.shift = uint(64 - log2(size))
@@ -351,14 +351,14 @@ func (t *PairTable) init(n int) {
 }
 
 // Len returns the number of keys.
-func (t *PairTable) Len() int { return t.n }
+func (t *pairTable) Len() int { return t.n }
 
-func (t *PairTable) home(k uint64) int {
+func (t *pairTable) home(k uint64) int {
 	return int((k * 0x9E3779B97F4A7C15) >> t.shift)
 }
 
 // Get returns the value of k and whether k is in the table.
-func (t *PairTable) Get(k uint64) (int32, bool) {
+func (t *pairTable) Get(k uint64) (int32, bool) {
 	if t.slots == nil {
 		return 0, false
 	}
@@ -374,18 +374,9 @@ func (t *PairTable) Get(k uint64) (int32, bool) {
 	}
 }
 
-// Put sets the value of k (not 0), growing the table as needed.
-func (t *PairTable) Put(k uint64, v int32) {
-	t.put(k, v, true)
-}
-
 // Insert adds k (not 0) with value v unless k is in the table already; it
-// reports whether it added k.
-func (t *PairTable) Insert(k uint64, v int32) bool {
-	return t.put(k, v, false)
-}
-
-func (t *PairTable) put(k uint64, v int32, replace bool) bool {
+// reports whether it added k. The table grows as needed.
+func (t *pairTable) Insert(k uint64, v int32) bool {
 	if t.slots == nil || 2*(t.n+1) > len(t.slots) {
 		t.grow()
 	}
@@ -393,9 +384,6 @@ func (t *PairTable) put(k uint64, v int32, replace bool) bool {
 	for i := t.home(k); ; i = (i + 1) & mask {
 		s := &t.slots[i]
 		if s.key == k {
-			if replace {
-				s.val = v
-			}
 			return false
 		}
 		if s.key == 0 {
@@ -406,13 +394,13 @@ func (t *PairTable) put(k uint64, v int32, replace bool) bool {
 	}
 }
 
-func (t *PairTable) grow() {
+func (t *pairTable) grow() {
 	old := t.slots
 	n := t.n
 	t.init(max(8, 2*n))
 	for _, s := range old {
 		if s.key != 0 {
-			t.Put(s.key, s.val)
+			t.Insert(s.key, s.val)
 		}
 	}
 	hugemem.Free(old)
@@ -420,9 +408,9 @@ func (t *PairTable) grow() {
 
 // Free gives the table's memory back (large tables live outside the Go
 // heap, see internal/hugemem) and leaves it empty.
-func (t *PairTable) Free() {
+func (t *pairTable) Free() {
 	hugemem.Free(t.slots)
-	*t = PairTable{}
+	*t = pairTable{}
 }
 
 // tableSize is the number of slots of an open-addressing table for n keys:

@@ -90,22 +90,16 @@ func TestIndexRefusesDuplicates(t *testing.T) {
 // on random keys, through growth.
 func TestPairTableAgainstMap(t *testing.T) {
 	r := rand.New(rand.NewPCG(1, 2))
-	var tab PairTable
+	var tab pairTable
 	ref := map[uint64]int32{}
 	for i := range 50000 {
 		k := r.Uint64()%20000 + 1
-		v := int32(i)
-		if r.IntN(2) == 0 {
-			tab.Put(k, v)
-			ref[k] = v
-		} else {
-			_, had := ref[k]
-			if tab.Insert(k, v) == had {
-				t.Fatalf("Insert(%d) added=%v, key present=%v", k, !had, had)
-			}
-			if !had {
-				ref[k] = v
-			}
+		_, had := ref[k]
+		if tab.Insert(k, int32(i)) == had {
+			t.Fatalf("Insert(%d) added=%v, key present=%v", k, !had, had)
+		}
+		if !had {
+			ref[k] = int32(i)
 		}
 	}
 	if tab.Len() != len(ref) {
