@@ -14,6 +14,7 @@ import (
 	"os/signal"
 	"runtime/debug"
 	"runtime/pprof"
+	"runtime/trace"
 	"sort"
 	"sync/atomic"
 	"syscall"
@@ -99,14 +100,21 @@ func main() {
 }
 
 // profiled runs fn, writing a CPU profile to $BOWLINE_CPUPROFILE and a heap
-// profile to $BOWLINE_MEMPROFILE when they are set (for pprof; see
-// DEVELOPERS.md).
+// profile to $BOWLINE_MEMPROFILE and an execution trace to $BOWLINE_TRACE
+// when they are set (for pprof and go tool trace; see DEVELOPERS.md).
 func profiled(fn func() int) int {
 	if p := os.Getenv("BOWLINE_CPUPROFILE"); p != "" {
 		f, err := os.Create(p)
 		if err == nil {
 			pprof.StartCPUProfile(f)
 			defer func() { pprof.StopCPUProfile(); f.Close() }()
+		}
+	}
+	if p := os.Getenv("BOWLINE_TRACE"); p != "" {
+		f, err := os.Create(p)
+		if err == nil {
+			trace.Start(f)
+			defer func() { trace.Stop(); f.Close() }()
 		}
 	}
 	code := fn()
