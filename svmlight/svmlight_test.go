@@ -531,11 +531,80 @@ func TestAppendValueMatchesStrconv(t *testing.T) {
 // TestAppendUintMatchesStrconv checks the two-digit formatter against
 // strconv on the edges of every digit count.
 func TestAppendUintMatchesStrconv(t *testing.T) {
-	for _, u := range []uint64{0, 1, 9, 10, 11, 99, 100, 101, 999, 1000, 65535, 1 << 20, 1<<32 - 1, 1 << 40, 1<<64 - 1} {
+	us := []uint64{0, 1, 9, 10, 11, 99, 100, 101, 999, 1000, 65535, 1 << 20, 1<<32 - 1, 1 << 40, 1<<64 - 1}
+	for p := uint64(10); p <= 1e19; p *= 10 {
+		us = append(us, p)
+	}
+	for b := 1; b < 64; b++ {
+		us = append(us, 1<<b)
+	}
+	for _, u := range us {
 		for _, v := range []uint64{u, u - 1, u + 1} {
 			if got, want := string(appendUint(nil, v)), strconv.FormatUint(v, 10); got != want {
 				t.Errorf("%d: %q, want %q", v, got, want)
 			}
 		}
+	}
+}
+
+// TestAppendRowMatchesStrconv: rows written in place, mixed with entries
+// that take the general path (negative columns, counts of 10 and more,
+// fractions, -0), read exactly as a plain strconv rendering of each entry.
+func TestAppendRowMatchesStrconv(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	vals := []float64{1, 2, 9, 10, 0.5, -1, math.Copysign(0, -1), 1e21, 3.25}
+	for trial := range 5000 {
+		n := rng.IntN(30)
+		idx := make([]int, n)
+		val := make([]float64, n)
+		for i := range idx {
+			idx[i] = int(rng.Uint64() >> rng.IntN(64))
+			if rng.IntN(50) == 0 {
+				idx[i] = -1 - rng.IntN(100)
+			}
+			val[i] = float64(1 + rng.IntN(9))
+			if rng.IntN(8) == 0 {
+				val[i] = vals[rng.IntN(len(vals))]
+			}
+		}
+		base := trial % 2
+		label := float64(rng.IntN(5)) - 2
+		want := strconv.FormatFloat(label, 'g', -1, 64)
+		for i := range idx {
+			want += " " + strconv.Itoa(idx[i]+base) + ":" + strconv.FormatFloat(val[i], 'g', -1, 64)
+		}
+		prefix := []byte("row\n")
+		dst := make([]byte, len(prefix), len(prefix)+rng.IntN(400))
+		copy(dst, prefix)
+		got := AppendRow(dst, label, idx, val, base)
+		if string(got) != string(prefix)+want {
+			t.Fatalf("trial %d:\n got %q\nwant %q", trial, got, string(prefix)+want)
+		}
+	}
+}
+
+// BenchmarkAppendRowCounts: rows of counts in a 2^20-column space, the
+// shape of hashing-mode output with tf = count.
+func BenchmarkAppendRowCounts(b *testing.B) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	var idx [][]int
+	var val [][]float64
+	var size int64
+	for range 256 {
+		var ix []int
+		var v []float64
+		for c := rng.IntN(9000); c < 1<<20; c += 1 + rng.IntN(18000) {
+			ix = append(ix, c)
+			v = append(v, float64(1+rng.IntN(3)/2))
+		}
+		idx, val = append(idx, ix), append(val, v)
+		size += int64(len(AppendRow(nil, 1, ix, v, 1)))
+	}
+	b.SetBytes(size / int64(len(idx)))
+	var dst []byte
+	i := 0
+	for b.Loop() {
+		dst = AppendRow(dst[:0], 1, idx[i%len(idx)], val[i%len(idx)], 1)
+		i++
 	}
 }

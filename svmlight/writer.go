@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"math/bits"
+	"slices"
 	"strconv"
 )
 
@@ -109,6 +111,30 @@ func (w *Writer) Rows() int64 {
 // WriteRow does.
 func AppendRow(dst []byte, label float64, indices []int, values []float64, base int) []byte {
 	dst = appendValue(dst, label)
+	// The common entry, a column of up to 20 digits and a count of 1 to
+	// 9, is written in place: room for every entry is made once per row.
+	const room = len(" :1") + 20
+	if cap(dst)-len(dst) < len(indices)*room {
+		dst = slices.Grow(dst, len(indices)*room)
+	}
+	b := dst[:cap(dst)]
+	n := len(dst)
+	for i, ix := range indices {
+		c, v := ix+base, values[i]
+		if c < 0 || !(v > 0 && v < 10 && v == float64(int(v))) {
+			return appendEntries(b[:n], indices[i:], values[i:], base)
+		}
+		b[n] = ' '
+		n = putUint(b, n+1, uint64(c))
+		b[n] = ':'
+		b[n+1] = '0' + byte(v)
+		n += 2
+	}
+	return b[:n]
+}
+
+// appendEntries appends " index:value" for each entry, any index and value.
+func appendEntries(dst []byte, indices []int, values []float64, base int) []byte {
 	for i, ix := range indices {
 		dst = append(dst, ' ')
 		if c := ix + base; c >= 0 {
@@ -131,26 +157,46 @@ const digitPairs = "000102030405060708091011121314151617181920212223242526272829
 	"40414243444546474849505152535455565758596061626364656667686970717273747576777879" +
 	"8081828384858687888990919293949596979899"
 
-// appendUint appends u in decimal, two digits at a time (as
-// strconv.AppendUint does, without its general-base dispatch).
-func appendUint(dst []byte, u uint64) []byte {
-	var a [20]byte
-	i := len(a)
+// pow10 holds 10^0 to 10^19.
+var pow10 = [20]uint64{1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12,
+	1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19}
+
+// decimalLen returns the number of decimal digits of u (1 for 0). 1233/4096
+// is just above log10(2), so t is log10(u) rounded down or one less.
+func decimalLen(u uint64) int {
+	t := bits.Len64(u|1) * 1233 >> 12
+	if u >= pow10[t] {
+		t++
+	}
+	return max(t, 1)
+}
+
+// putUint writes u in decimal into b at n, two digits at a time from the
+// right, and returns the index after it. b must have room.
+func putUint(b []byte, n int, u uint64) int {
+	end := n + decimalLen(u)
+	i := end
 	for u >= 100 {
 		q := u / 100
 		r := (u - q*100) * 2
 		i -= 2
-		a[i], a[i+1] = digitPairs[r], digitPairs[r+1]
+		b[i], b[i+1] = digitPairs[r], digitPairs[r+1]
 		u = q
 	}
 	if u >= 10 {
-		i -= 2
-		a[i], a[i+1] = digitPairs[u*2], digitPairs[u*2+1]
+		b[i-2], b[i-1] = digitPairs[u*2], digitPairs[u*2+1]
 	} else {
-		i--
-		a[i] = '0' + byte(u)
+		b[i-1] = '0' + byte(u)
 	}
-	return append(dst, a[i:]...)
+	return end
+}
+
+// appendUint appends u in decimal (as strconv.AppendUint does, without its
+// general-base dispatch).
+func appendUint(dst []byte, u uint64) []byte {
+	n := len(dst)
+	dst = slices.Grow(dst, 20)
+	return dst[:putUint(dst[:cap(dst)], n, u)]
 }
 
 // appendValue appends v in shortest round-trip form, exactly as
