@@ -21,6 +21,12 @@ type File struct {
 	// direct is set for targets that are not regular files: written in
 	// place, closed by Commit and Abort.
 	direct bool
+	// NoSync, set before Commit, skips flushing the file to disk before
+	// the rename. The rename still replaces the old file whole, so a
+	// reader sees the old file or the new one, never part of it; only a
+	// power cut soon after can lose the new one. It is for large outputs
+	// that can be made again, where the flush costs more than it saves.
+	NoSync bool
 }
 
 var (
@@ -82,7 +88,8 @@ func (a *File) Write(p []byte) (int, error) {
 	return n, nil
 }
 
-// Commit syncs and closes the temporary file and renames it to Path.
+// Commit syncs (unless NoSync) and closes the temporary file and renames it
+// to Path.
 func (a *File) Commit() error {
 	if a.done {
 		return nil
@@ -96,7 +103,7 @@ func (a *File) Commit() error {
 	}
 	forget(a)
 	tmp := a.f.Name()
-	if err := a.f.Sync(); err != nil {
+	if err := a.sync(); err != nil {
 		a.f.Close()
 		os.Remove(tmp)
 		return fmt.Errorf("writing %s: %w", a.Path, unwrapPath(err))
@@ -114,6 +121,13 @@ func (a *File) Commit() error {
 		return fmt.Errorf("cannot write %s: %w", a.Path, unwrapPath(err))
 	}
 	return nil
+}
+
+func (a *File) sync() error {
+	if a.NoSync {
+		return nil
+	}
+	return a.f.Sync()
 }
 
 // Abort removes the temporary file. It is safe to call after Commit, where

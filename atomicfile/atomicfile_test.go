@@ -22,25 +22,29 @@ func entries(t *testing.T, dir string) []string {
 }
 
 func TestCommitPutsFileInPlace(t *testing.T) {
-	dir := t.TempDir()
-	p := filepath.Join(dir, "rows.svm")
-	f, err := Create(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	io.WriteString(f, "1 1:2\n")
-	if _, err := os.Stat(p); !os.IsNotExist(err) {
-		t.Fatalf("file visible before commit: %v", err)
-	}
-	if err := f.Commit(); err != nil {
-		t.Fatal(err)
-	}
-	b, err := os.ReadFile(p)
-	if err != nil || string(b) != "1 1:2\n" {
-		t.Fatalf("got %q, %v", b, err)
-	}
-	if n := entries(t, dir); len(n) != 1 {
-		t.Fatalf("leftover files: %v", n)
+	for _, noSync := range []bool{false, true} {
+		dir := t.TempDir()
+		p := filepath.Join(dir, "rows.svm")
+		os.WriteFile(p, []byte("old\n"), 0o644)
+		f, err := Create(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f.NoSync = noSync
+		io.WriteString(f, "1 1:2\n")
+		if b, _ := os.ReadFile(p); string(b) != "old\n" {
+			t.Fatalf("NoSync=%v: old file changed before commit: %q", noSync, b)
+		}
+		if err := f.Commit(); err != nil {
+			t.Fatal(err)
+		}
+		b, err := os.ReadFile(p)
+		if err != nil || string(b) != "1 1:2\n" {
+			t.Fatalf("NoSync=%v: got %q, %v", noSync, b, err)
+		}
+		if n := entries(t, dir); len(n) != 1 {
+			t.Fatalf("NoSync=%v: leftover files: %v", noSync, n)
+		}
 	}
 }
 

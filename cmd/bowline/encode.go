@@ -108,6 +108,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 		return &ioError{err}
 	}
 	defer out.Abort()
+	out.NoSync = true // rows can be made again; see README "Exit codes"
 	rej, err := ef.open()
 	if err != nil {
 		return err
