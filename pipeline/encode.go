@@ -93,8 +93,10 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	for i := 0; i < nw; i++ {
 		workers[i] = enc.NewWorker(true)
 		if workers[i].Stats.Tally != nil {
+			if tally == nil {
+				tally = hashing.NewTally()
+			}
 			workers[i].CollectSums()
-			tally = hashing.NewTally()
 		}
 		wg.Add(1)
 		go func(w *spec.Worker) {
