@@ -83,7 +83,9 @@ func unwrapPath(err error) error {
 func (a *File) Write(p []byte) (int, error) {
 	n, err := a.f.Write(p)
 	if err != nil {
-		return n, fmt.Errorf("writing %s: %w", a.Path, unwrapPath(err))
+		// A *os.PathError, so that callers can tell an output failure
+		// ("writing rows.svm: no space left on device") from others.
+		return n, &os.PathError{Op: "writing", Path: a.Path, Err: unwrapPath(err)}
 	}
 	return n, nil
 }

@@ -188,6 +188,14 @@ func TestBadInput(t *testing.T) {
 		{[]string{"encode", "--spec", p("spec.json"), p("words.tsv"), "-o", p("out.svm")}, exitData, "bikes"},
 		{[]string{"encode", "--spec", p("nospec.json"), p("words.tsv"), "-o", p("out.svm")}, exitIO, "nospec.json"},
 	}
+	if _, err := os.Stat("/dev/full"); err == nil {
+		// A write that fails (the disk is full) is an output failure.
+		cases = append(cases, struct {
+			args []string
+			code int
+			want string
+		}{[]string{"encode", "--spec", p("spec.json"), p("train.tsv"), "-o", "/dev/full"}, exitIO, "writing /dev/full"})
+	}
 	for _, c := range cases {
 		code, stderr := bowline(t, c.args...)
 		if code != c.code || !strings.Contains(stderr, c.want) {

@@ -114,15 +114,13 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer rej.abort()
-	bw := newBufWriter(out)
+	// The pipeline writes whole batches of rows (hundreds of KB); a
+	// buffer in between would only copy them.
 	bar := newProgress(rf.progress, r.Size(), stderr, "encode")
-	fig, err := pipeline.Encode(r, enc, bw, pipeline.EncodeOptions{Name: path, Workers: rf.workers, Base: of.indexBase, WithIDs: of.withIDs, LabelFallback: fb, Progress: bar.set, Rejects: rej.rejects(), Crowded: explainN})
+	fig, err := pipeline.Encode(r, enc, out, pipeline.EncodeOptions{Name: path, Workers: rf.workers, Base: of.indexBase, WithIDs: of.withIDs, LabelFallback: fb, Progress: bar.set, Rejects: rej.rejects(), Crowded: explainN})
 	bar.finish()
 	if err != nil {
 		return err
-	}
-	if err := bw.Flush(); err != nil {
-		return &ioError{err}
 	}
 	if err := out.Commit(); err != nil {
 		return &ioError{err}

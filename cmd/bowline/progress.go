@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bufio"
 	"io"
 	"os"
 	"sync/atomic"
@@ -78,8 +77,3 @@ func (p *progress) finish() {
 	p.bar.Finish()
 	p.bar.Clear()
 }
-
-// bufWriter is a buffered writer that reports write errors as I/O errors.
-type bufWriter struct{ *bufio.Writer }
-
-func newBufWriter(w io.Writer) *bufWriter { return &bufWriter{bufio.NewWriterSize(w, 1<<20)} }
