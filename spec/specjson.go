@@ -5,6 +5,8 @@ import (
 	"encoding/json"
 	"math"
 	"strconv"
+	"sync"
+	"sync/atomic"
 	"unicode/utf8"
 )
 
@@ -35,7 +37,12 @@ import (
 // fields refused). ok is false when it gives up; fl and c are then
 // meaningless.
 func fastDecode(data []byte) (fl fileLayout, c Content, ok bool) {
-	d := &jsonScan{b: data}
+	d := &jsonScan{b: data, async: new(asyncDecode)}
+	defer func() {
+		// Arrays decoded on other goroutines must be done, and done well.
+		d.async.wg.Wait()
+		ok = ok && !d.async.failed.Load()
+	}()
 	var seen fieldSet
 	ok = d.object(func(name []byte) bool {
 		if !seen.first(name) {
@@ -67,7 +74,22 @@ func fastDecode(data []byte) (fl fileLayout, c Content, ok bool) {
 type jsonScan struct {
 	b []byte
 	i int
+	// async, when not nil, lets a large array of strings (the vocabulary's
+	// keys) be decoded on its own goroutine while the scan goes on past
+	// it, so that the keys and the integer arrays after them are parsed at
+	// the same time.
+	async *asyncDecode
 }
+
+// asyncDecode tracks the arrays a scan handed to other goroutines.
+type asyncDecode struct {
+	wg     sync.WaitGroup
+	failed atomic.Bool // an array was not decoded where its scan expected
+}
+
+// asyncMinStrings is the smallest array of strings decoded on its own
+// goroutine (a variable so that the tests can send every array there).
+var asyncMinStrings = 1 << 14
 
 // ws skips JSON white space.
 func (d *jsonScan) ws() {
@@ -360,6 +382,28 @@ func (d *jsonScan) strs(dst *[]string) bool {
 		*dst = nil
 		return d.delegate(dst)
 	}
+	if d.async != nil && n >= asyncMinStrings {
+		// countStrings found where the array ends: the scan goes on from
+		// there, and the array is decoded beside it. If that decoding
+		// ends anywhere else, or fails, the whole fast path gives up.
+		sub := &jsonScan{b: d.b, i: start}
+		d.async.wg.Add(1)
+		go func(a *asyncDecode) {
+			defer a.wg.Done()
+			if !sub.strsAt(dst, n, end) || sub.i != end {
+				a.failed.Store(true)
+			}
+		}(d.async)
+		d.i = end
+		return true
+	}
+	return d.strsAt(dst, n, end)
+}
+
+// strsAt decodes the array of n strings (as countStrings counted them)
+// that starts at the scan and ends at end.
+func (d *jsonScan) strsAt(dst *[]string, n, end int) bool {
+	start := d.i
 	all := string(d.b[start:end])
 	out := make([]string, 0, n)
 	ok := d.array(func() bool {

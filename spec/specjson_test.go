@@ -89,6 +89,13 @@ func referenceRead(data []byte, name string) (*Spec, error) {
 func compareDecoders(t *testing.T, name string, data []byte) bool {
 	t.Helper()
 	fl, c, ok := fastDecode(data)
+	// Again with every array of strings decoded on its own goroutine.
+	defer func(n int) { asyncMinStrings = n }(asyncMinStrings)
+	asyncMinStrings = 1
+	afl, ac, aok := fastDecode(data)
+	if aok != ok || ok && (!reflect.DeepEqual(afl, fl) || !reflect.DeepEqual(ac, c)) {
+		t.Fatalf("%s: decoding arrays of strings on their own goroutines changes the result (ok %v, %v)", name, ok, aok)
+	}
 	if !ok {
 		return false
 	}
@@ -392,8 +399,9 @@ func TestFastDecodeAllocations(t *testing.T) {
 	}
 	a, b := count(small.Bytes()), count(large.Bytes())
 	// The generated specs carry three keys with escapes, decoded one by
-	// one; everything else is a fixed number of allocations.
-	if b != a || b > 200 {
+	// one; everything else is a fixed number of allocations (a few more
+	// for the larger, whose keys are decoded on their own goroutine).
+	if b < a || b > a+4 || b > 200 {
 		t.Errorf("allocations: %v for 200 keys, %v for 20000 keys", a, b)
 	}
 }
