@@ -7,6 +7,8 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"reflect"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -274,5 +276,63 @@ func TestReindentedSpecLoads(t *testing.T) {
 	got, err := Load(p)
 	if err != nil || got.Fingerprint != sp.Fingerprint {
 		t.Fatalf("re-indented spec: %v", err)
+	}
+}
+
+// TestLoadEncoderRefusesDuplicateKeys: LoadEncoder leaves the duplicate
+// check to the encoder's index, and still refuses a spec that has a key
+// twice, as Load does, for a unigram, a bigram and a key of another kind
+// (character n-grams); a good spec loads the same either way.
+func TestLoadEncoderRefusesDuplicateKeys(t *testing.T) {
+	st := settings(ModeVocabulary)
+	st.NGrams.Chars = ngram.Range{Min: 3, Max: 3}
+	good := learn(t, st)
+	dir := t.TempDir()
+	p := filepath.Join(dir, "spec.json")
+	if err := good.Save(p); err != nil {
+		t.Fatal(err)
+	}
+	s1, err := Load(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s2, enc, err := LoadEncoder(p)
+	if err != nil || enc == nil || !reflect.DeepEqual(s1, s2) {
+		t.Fatalf("LoadEncoder of a good spec: %v", err)
+	}
+	keys := good.Content.Vocabulary.Keys
+	orders := good.Content.Vocabulary.Orders
+	kinds := map[int][]int{} // order code -> columns
+	for col, o := range orders {
+		kinds[o] = append(kinds[o], col)
+	}
+	if len(kinds) < 3 {
+		t.Fatalf("want unigrams, bigrams and character n-grams, got order codes %v", kinds)
+	}
+	tried := 0
+	for code, cols := range kinds {
+		if len(cols) < 2 {
+			continue
+		}
+		tried++
+		bad := learn(t, st)
+		v := bad.Content.Vocabulary
+		a, b := cols[0], cols[len(cols)-1]
+		v.Keys[b] = keys[a]
+		bad.Fingerprint, bad.canon = "", nil
+		if err := bad.Save(p); err != nil {
+			t.Fatal(err)
+		}
+		var le *LoadError
+		if _, err := Load(p); !errors.As(err, &le) || le.Reason != "invalid" {
+			t.Fatalf("order %d: Load gave %v, want an invalid spec", code, err)
+		}
+		_, _, err := LoadEncoder(p)
+		if !errors.As(err, &le) || le.Reason != "invalid" || !strings.Contains(err.Error(), strconv.Quote(keys[a])) {
+			t.Fatalf("order %d: LoadEncoder gave %v, want an invalid spec naming %q", code, err, keys[a])
+		}
+	}
+	if tried < 3 {
+		t.Fatalf("duplicated keys of %d kinds, want 3", tried)
 	}
 }

@@ -14,7 +14,11 @@ import (
 )
 
 // Validate checks that the spec is complete and self-consistent.
-func (s *Spec) Validate() error {
+func (s *Spec) Validate() error { return s.validate(true) }
+
+// validate is Validate; without dupKeys it does not look for duplicate
+// vocabulary keys.
+func (s *Spec) validate(dupKeys bool) error {
 	c := &s.Content
 	if _, err := c.Analysis(); err != nil {
 		return err
@@ -47,8 +51,10 @@ func (s *Spec) Validate() error {
 		if _, err := vocab.ParseUnseen(v.Unseen); err != nil {
 			return err
 		}
-		if i := firstDuplicate(v.Keys); i >= 0 {
-			return fmt.Errorf("vocabulary: key %q appears twice (column %d)", v.Keys[i], i)
+		if dupKeys {
+			if i := firstDuplicate(v.Keys); i >= 0 {
+				return fmt.Errorf("vocabulary: key %q appears twice (column %d)", v.Keys[i], i)
+			}
 		}
 		if idf != weight.IDFNone && len(c.Weights.IDFValues) != len(v.Keys) {
 			return fmt.Errorf("weights: %d idf values for %d columns", len(c.Weights.IDFValues), len(v.Keys))

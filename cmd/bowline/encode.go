@@ -63,7 +63,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	s, err := spec.Load(specPath)
+	s, enc, err := spec.LoadEncoder(specPath)
 	if err != nil {
 		return err
 	}
@@ -81,10 +81,6 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	}
 	if of.featureMap != "" && s.Content.Vocabulary == nil {
 		return cli.Usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
-	}
-	enc, err := spec.NewEncoder(s)
-	if err != nil {
-		return &spec.LoadError{File: specPath, Reason: "invalid", Err: err}
 	}
 	path := c.Args[0]
 	copts, err := in.Options(path, &s.Content.Input, c.Given)
