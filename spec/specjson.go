@@ -8,6 +8,7 @@ import (
 	"sync"
 	"sync/atomic"
 	"unicode/utf8"
+	"unsafe"
 )
 
 // This file is Read's fast path. A spec's content is mostly a few large
@@ -35,7 +36,8 @@ import (
 // does: the envelope (unknown fields refused; bytes after the envelope's
 // closing brace ignored, as json.Decoder does) and its content (unknown
 // fields refused). ok is false when it gives up; fl and c are then
-// meaningless.
+// meaningless. The strings of c may share data's bytes, so data must not
+// change afterwards.
 func fastDecode(data []byte) (fl fileLayout, c Content, ok bool) {
 	d := &jsonScan{b: data, async: new(asyncDecode)}
 	defer func() {
@@ -371,8 +373,7 @@ func (d *jsonScan) array(elem func() bool) bool {
 }
 
 // strs decodes an array of strings. The keys of a large vocabulary
-// share one allocation: a string without escapes is a piece of one copy
-// of the array's bytes. A first pass finds the end of the array and counts
+// share the file's bytes: a string without escapes is a piece of them. A first pass finds the end of the array and counts
 // its strings (it checks nothing); the second checks every byte as it
 // fills the slice.
 func (d *jsonScan) strs(dst *[]string) bool {
@@ -404,7 +405,10 @@ func (d *jsonScan) strs(dst *[]string) bool {
 // that starts at the scan and ends at end.
 func (d *jsonScan) strsAt(dst *[]string, n, end int) bool {
 	start := d.i
-	all := string(d.b[start:end])
+	// The strings point into the file's bytes: Read owns them and nothing
+	// writes to them once they are read, so they can be shared instead of
+	// copied (10 MB for 600,000 keys).
+	all := unsafe.String(&d.b[start], end-start)
 	out := make([]string, 0, n)
 	ok := d.array(func() bool {
 		if d.i >= len(d.b) || d.b[d.i] != '"' || len(out) == n {

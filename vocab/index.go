@@ -59,8 +59,8 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 	dup := func(key string, col int) error {
 		return fmt.Errorf("vocab: term %d: key %q appears twice", col, key)
 	}
-	type pending struct {
-		field int
+	type pending struct { // 16 bytes: there is one per key
+		field int32
 		a, b  int32 // word ids; b is -1 for a unigram
 		col   int32
 	}
@@ -93,7 +93,7 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 				if n == 2 {
 					b = x.wordID(w2)
 				}
-				found = append(found, pending{f, a, b, int32(col)})
+				found = append(found, pending{int32(f), a, b, int32(col)})
 				placed = true
 			}
 		}
@@ -134,7 +134,7 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 	}
 	for _, p := range found {
 		if p.b < 0 {
-			u := &x.uni[p.field*x.nwords+int(p.a)]
+			u := &x.uni[int(p.field)*x.nwords+int(p.a)]
 			if *u >= 0 {
 				return nil, dup(keys[p.col], int(p.col))
 			}
@@ -145,7 +145,7 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 		if pack {
 			added = x.packed.insert(p.a, p.b, p.col)
 		} else {
-			added = x.pairs.Insert(pairKey(p.field, p.a, p.b), p.col)
+			added = x.pairs.Insert(pairKey(int(p.field), p.a, p.b), p.col)
 		}
 		if !added {
 			return nil, dup(keys[p.col], int(p.col))
