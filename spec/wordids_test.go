@@ -17,8 +17,8 @@ import (
 // wordIDTexts are texts whose tokens stress what the word-id lookup relies
 // on (tokens hold no space and no '|'): every kind of space between words,
 // separators, apostrophes, scripts without spaces, emoji, combining marks,
-// and words of exactly 8 and 9 bytes on both sides of the packed-word
-// limit. The Unicode characters are chosen from the UAX #29 word-break
+// and words of 8, 9, 16 and 17 bytes on both sides of the packed-word
+// limits. The Unicode characters are chosen from the UAX #29 word-break
 // classes (Unicode Standard Annex #29, table 3: WSegSpace, MidLetter,
 // MidNumLet, ExtendNumLet, Extend).
 var wordIDTexts = []string{
@@ -26,6 +26,7 @@ var wordIDTexts = []string{
 	"don't don\u2019t U.S.A v8 snake_case ___ 3.14 1,000 e\u0301t\u00e9 na\u00efve",
 	"\u0e2a\u0e27\u0e31\u0e2a\u0e14\u0e35 \u6771\u4eac \u30ab\u30bf\u30ab\u30ca \U0001F6B2 bike\u200dshare",
 	"abcdefgh abcdefghi abcdefgh abcdefghi abcdefgh\u00e9 \u00e9\u00e9\u00e9\u00e9",
+	"abcdefghijklmnop abcdefghijklmnopq abcdefghijklmnop abcdefghijklmnopq abcdefghijklmno\u00e9 abcdefghijklmnopq",
 	"|| | a|b a | b  a  b",
 	"",
 }

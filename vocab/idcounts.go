@@ -1,6 +1,7 @@
 package vocab
 
 import (
+	"github.com/bowline/bowline/internal/wordpack"
 	"math"
 	"slices"
 	"sync"
@@ -22,6 +23,7 @@ import (
 type IDCounts struct {
 	prefixes []string
 	short    pairTable        // words of up to 8 bytes, packed -> id
+	medium   wordTable        // words of 9 to 16 bytes, packed -> id
 	long     map[string]int32 // longer words -> id
 	text     []byte           // word bytes, one after another
 	ends     []uint32         // word id i is text[ends[i-1]:ends[i]]
@@ -98,6 +100,17 @@ func (c *IDCounts) Word(tok []byte) int32 {
 		id := c.newWord(tok)
 		if id >= 0 {
 			c.short.Insert(k, id)
+		}
+		return id
+	}
+	if len(tok) <= 16 {
+		lo, hi := wordpack.Pack16(tok)
+		if id, ok := c.medium.get(lo, hi); ok {
+			return id
+		}
+		id := c.newWord(tok)
+		if id >= 0 {
+			c.medium.insert(lo, hi, id)
 		}
 		return id
 	}

@@ -25,6 +25,7 @@ import (
 type Index struct {
 	prefixes []string         // field prefixes, in field order ("" for one unprefixed field)
 	short    pairTable        // words of up to 8 bytes, packed (see pack8) -> id
+	medium   wordTable        // words of 9 to 16 bytes, packed in two words -> id
 	words    map[string]int32 // longer words of word unigram and bigram keys -> id
 	nwords   int
 	uni      []int32          // [field*nwords + id] -> column, or -1
@@ -107,7 +108,7 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 	}
 	if x.nwords > maxIndexWords {
 		// Too many words to pack: look everything up by its bytes.
-		x.words, x.short, x.nwords, x.uni = map[string]int32{}, pairTable{}, 0, nil
+		x.words, x.short, x.medium, x.nwords, x.uni = map[string]int32{}, pairTable{}, wordTable{}, 0, nil
 		for col, key := range keys {
 			if _, ok := x.rest[key]; ok {
 				return nil, dup(key, col)
@@ -157,13 +158,15 @@ func NewIndex(keys []string, orders []int, prefixes []string, wordCode func(code
 	return x, nil
 }
 
-// plainWord reports whether w can be a token: not empty, no space, no '|'.
+// plainWord reports whether w can be a token: not empty, no space, no '|'
+// and no NUL (the tokenizer turns NUL into a space; packed words are told
+// apart by their zero padding).
 func plainWord(w string) bool {
 	if w == "" {
 		return false
 	}
 	for i := 0; i < len(w); i++ {
-		if w[i] == ' ' || w[i] == '|' {
+		if w[i] == ' ' || w[i] == '|' || w[i] == 0 {
 			return false
 		}
 	}
@@ -178,6 +181,15 @@ func (x *Index) wordID(w string) int32 {
 		}
 		id := x.newID()
 		x.short.Insert(k, id)
+		return id
+	}
+	if len(w) <= 16 {
+		lo, hi := wordpack.Pack16String(w)
+		if id, ok := x.medium.get(lo, hi); ok {
+			return id
+		}
+		id := x.newID()
+		x.medium.insert(lo, hi, id)
 		return id
 	}
 	if id, ok := x.words[w]; ok {
@@ -216,10 +228,76 @@ func (x *Index) Word(tok []byte) int32 {
 		}
 		return -1
 	}
+	if len(tok) <= 16 {
+		if id, ok := x.medium.get(wordpack.Pack16(tok)); ok {
+			return id
+		}
+		return -1
+	}
 	if id, ok := x.words[string(tok)]; ok {
 		return id
 	}
 	return -1
+}
+
+// wordTable maps words of 9 to 16 bytes, packed into two words (see
+// internal/wordpack; the second is not 0), to ids: an open-addressing
+// table with linear probing, at most half full, in the Go heap (it holds
+// the distinct words of the vocabulary's unigram and bigram keys, tens of
+// thousands). A Go map of strings costs three times as much per lookup,
+// in hashing the token and comparing its bytes.
+type wordTable struct {
+	slots []wordSlot
+	shift uint
+	n     int
+}
+
+type wordSlot struct {
+	lo, hi uint64 // hi == 0: empty
+	id     int32
+}
+
+func (t *wordTable) home(lo, hi uint64) int {
+	return int(((lo ^ hi*0x9E3779B97F4A7C15) * 0xff51afd7ed558ccd) >> t.shift)
+}
+
+func (t *wordTable) get(lo, hi uint64) (int32, bool) {
+	if t.slots == nil {
+		return 0, false
+	}
+	mask := len(t.slots) - 1
+	for i := t.home(lo, hi); ; i = (i + 1) & mask {
+		s := &t.slots[i]
+		if s.lo == lo && s.hi == hi {
+			return s.id, true
+		}
+		if s.hi == 0 {
+			return 0, false
+		}
+	}
+}
+
+// insert adds a word that is not in the table (hi != 0).
+func (t *wordTable) insert(lo, hi uint64, id int32) {
+	if 2*(t.n+1) > len(t.slots) {
+		old := t.slots
+		size := max(64, 2*len(old))
+		t.slots = make([]wordSlot, size)
+		t.shift = uint(64 - log2(size))
+		t.n = 0
+		for _, s := range old {
+			if s.hi != 0 {
+				t.insert(s.lo, s.hi, s.id)
+			}
+		}
+	}
+	mask := len(t.slots) - 1
+	i := t.home(lo, hi)
+	for t.slots[i].hi != 0 {
+		i = (i + 1) & mask
+	}
+	t.slots[i] = wordSlot{lo, hi, id}
+	t.n++
 }
 
 // Unigram returns the column of the word unigram of field with word id

@@ -55,3 +55,10 @@ func Pack8String(s string) uint64 {
 	}
 	return k
 }
+
+// Pack16String is Pack16 for a string.
+func Pack16String(s string) (lo, hi uint64) {
+	var a [16]byte
+	copy(a[:], s)
+	return binary.LittleEndian.Uint64(a[:8]), binary.LittleEndian.Uint64(a[8:])
+}

@@ -18,6 +18,9 @@ func TestPackIgnoresBytesPastLength(t *testing.T) {
 			if lo, hi := Pack16(tok); lo != wlo || hi != whi {
 				t.Errorf("Pack16 n=%d cap=%d: %x %x, want %x %x", n, cap(tok), lo, hi, wlo, whi)
 			}
+			if lo, hi := Pack16String(string(tok)); lo != wlo || hi != whi {
+				t.Errorf("Pack16String n=%d: %x %x, want %x %x", n, lo, hi, wlo, whi)
+			}
 			if n <= 8 {
 				if k := Pack8(tok); k != wlo {
 					t.Errorf("Pack8 n=%d cap=%d: %x, want %x", n, cap(tok), k, wlo)
