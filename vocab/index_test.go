@@ -113,3 +113,36 @@ func TestPairTableAgainstMap(t *testing.T) {
 		}
 	}
 }
+
+// TestIndexWordsByLength: words on both sides of the packed limits (8, 9,
+// 16 and 17 bytes) get ids and columns; a key word holding NUL, which no
+// token holds, is found by its bytes and does not take the column of the
+// word it would pack like.
+func TestIndexWordsByLength(t *testing.T) {
+	keys := []string{"abcdefgh", "abcdefghi", "abcdefghijklmnop", "abcdefghijklmnopq",
+		"abcdefghijklmnop abcdefghijklmnopq", "ab", "ab\x00", "abcdefghij\x00", "abcdefghij"}
+	orders := []int{1, 1, 1, 1, 2, 1, 1, 1, 1}
+	x, err := NewIndex(keys, orders, nil, wordOrder)
+	if err != nil {
+		t.Fatal(err)
+	}
+	id := func(w string) int32 { return x.Word([]byte(w)) }
+	for col, k := range keys {
+		switch {
+		case strings.Contains(k, "\x00"):
+			if c, ok := x.Lookup([]byte(k)); !ok || c != col {
+				t.Errorf("%q: Lookup = %d %v, want %d", k, c, ok, col)
+			}
+		case orders[col] == 1:
+			if c := x.Unigram(0, id(k)); int(c) != col {
+				t.Errorf("%q: column %d, want %d", k, c, col)
+			}
+		}
+	}
+	if c := x.Bigram(0, id("abcdefghijklmnop"), id("abcdefghijklmnopq")); c != 4 {
+		t.Errorf("bigram of a 16- and a 17-byte word: %d", c)
+	}
+	if id("abcdefghijklmno") != -1 || id("abcdefghijklmnopqr") != -1 {
+		t.Error("a word of no key has an id")
+	}
+}
