@@ -4,6 +4,7 @@ import (
 	"math"
 	"runtime"
 	"slices"
+	"sync/atomic"
 
 	"github.com/bowline/bowline/internal/hugemem"
 )
@@ -74,10 +75,15 @@ type Collisions struct {
 // inserting them ordered by region of the table was tried; on the
 // benchmark corpus it cost more than it saved.)
 //
-// The zero Tally is not ready for use; call NewTally. A Tally is not safe for
-// concurrent use: give each goroutine its own and Merge them.
+// The zero Tally is not ready for use; call NewTally. A Tally is not safe
+// for concurrent use, except Unknown: give each goroutine its own and
+// Merge them, or let one goroutine add what the others gathered and did
+// not find with Unknown.
 type Tally struct {
 	slots []uint64 // 0 = empty; len is a power of two
+	// table is slots, published for Unknown: slots are stored atomically,
+	// and a grown table replaces it only once it is filled.
+	table atomic.Pointer[[]uint64]
 	n     int      // non-zero sums in slots
 	zero  bool     // the sum 0 was added
 	buf   []uint64 // added by Add, not yet inserted
@@ -119,7 +125,13 @@ func (t *Tally) AddAll(sums []uint64) {
 
 // tallyHeld holds a Tally's current table for the clean-up that gives it
 // back.
-type tallyHeld struct{ slots []uint64 }
+// tallyHeld holds a Tally's tables for the clean-up that gives them back:
+// the current one, and those outside the Go heap it outgrew, which Unknown
+// may still be reading.
+type tallyHeld struct {
+	slots []uint64
+	old   [][]uint64
+}
 
 // NewTally returns an empty Tally.
 //
@@ -128,8 +140,46 @@ type tallyHeld struct{ slots []uint64 }
 func NewTally() *Tally {
 	t := &Tally{slots: make([]uint64, 1024), buf: make([]uint64, 0, tallyBuffer), held: new(tallyHeld),
 		recent: NewRecent()}
-	runtime.AddCleanup(t, func(h *tallyHeld) { hugemem.Free(h.slots) }, t.held)
+	t.publish()
+	runtime.AddCleanup(t, func(h *tallyHeld) {
+		hugemem.Free(h.slots)
+		for _, o := range h.old {
+			hugemem.Free(o)
+		}
+	}, t.held)
 	return t
+}
+
+// publish makes the current table the one Unknown reads.
+func (t *Tally) publish() {
+	s := t.slots
+	t.table.Store(&s)
+}
+
+// Unknown removes from sums, in place and keeping their order, those that
+// t holds, and returns what is left. It may run on other goroutines while
+// one goroutine adds to t: it then sees the sums inserted so far, and may
+// keep some added lately (still buffered by Add, or inserted while it
+// looks), but it never removes a sum that was not added. So workers can
+// drop the sums of keys seen before and send on the rest, for one
+// goroutine to add. The sum 0 is always kept.
+func (t *Tally) Unknown(sums []uint64) []uint64 {
+	s := *t.table.Load()
+	mask := uint64(len(s) - 1)
+	out := sums[:0]
+	for _, x := range sums {
+		for i := x & mask; ; i = (i + 1) & mask {
+			v := atomic.LoadUint64(&s[i])
+			if v == x && x != 0 {
+				break
+			}
+			if v == 0 {
+				out = append(out, x)
+				break
+			}
+		}
+	}
+	return out
 }
 
 // Add records the hash sum of one key occurrence. Adding the same sum again
@@ -174,7 +224,7 @@ func (t *Tally) insert(sum uint64) {
 		case sum:
 			return
 		case 0:
-			t.slots[i] = sum
+			atomic.StoreUint64(&t.slots[i], sum)
 			t.n++
 			if 2*t.n > len(t.slots) {
 				t.grow()
@@ -186,7 +236,6 @@ func (t *Tally) insert(sum uint64) {
 
 func (t *Tally) grow() {
 	old := t.slots
-	defer hugemem.Free(old)
 	t.slots = hugemem.Make[uint64](2 * len(old))
 	t.held.slots = t.slots
 	mask := uint64(len(t.slots) - 1)
@@ -199,6 +248,15 @@ func (t *Tally) grow() {
 			i = (i + 1) & mask
 		}
 		t.slots[i] = s
+	}
+	t.publish()
+	// Unknown may still be reading the old table. One outside the Go heap
+	// gives its pages back now and reads as empty (so Unknown keeps sums,
+	// never wrongly drops them) until the clean-up unmaps it; a heap table
+	// is kept by the garbage collector while it is read.
+	if 8*len(old) >= hugemem.MinBytes {
+		hugemem.Release(old)
+		t.held.old = append(t.held.old, old)
 	}
 }
 

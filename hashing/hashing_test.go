@@ -13,6 +13,7 @@ import (
 	"os/exec"
 	"strconv"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -690,5 +691,75 @@ func BenchmarkTallyAddAll(b *testing.B) {
 		if tl.Len() == 0 {
 			b.Fatal("empty tally")
 		}
+	}
+}
+
+// TestTallyUnknownWhileAdding: goroutines call Unknown while another adds
+// sums, the table growing past the size kept outside the Go heap. Unknown
+// must never drop a sum that was not added (that would lose a key from
+// the collision figures); sums added before it started it drops, unless
+// the table it read was outgrown meanwhile. Run with -race as well.
+func TestTallyUnknownWhileAdding(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 22))
+	known := make([]uint64, 5000)
+	for i := range known {
+		known[i] = rng.Uint64() | 1<<63 // top bit set: added first
+	}
+	adding := make([]uint64, 700000) // grows the table to 2^21 slots (16 MiB)
+	for i := range adding {
+		adding[i] = rng.Uint64() | 1<<63
+	}
+	never := make([]uint64, 5000)
+	for i := range never {
+		never[i] = rng.Uint64() &^ (1 << 63) // top bit clear: never added
+	}
+	tl := NewTally()
+	tl.AddAll(known)
+	stop := make(chan struct{})
+	errs := make(chan string, 4)
+	var wg sync.WaitGroup
+	for g := 0; g < 3; g++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			buf := make([]uint64, 0, 2*len(never))
+			for rounds := 0; ; rounds++ {
+				select {
+				case <-stop:
+					if rounds == 0 {
+						errs <- "a reader never ran"
+					}
+					return
+				default:
+				}
+				buf = append(append(buf[:0], known...), never...)
+				left := tl.Unknown(buf)
+				nev := 0
+				for _, s := range left {
+					if s>>63 == 0 {
+						nev++
+					}
+				}
+				if nev != len(never) {
+					errs <- fmt.Sprintf("Unknown kept %d of %d sums never added", nev, len(never))
+					return
+				}
+			}
+		}()
+	}
+	for i := 0; i < len(adding); i += 1000 {
+		tl.AddAll(adding[i : i+1000])
+	}
+	close(stop)
+	wg.Wait()
+	close(errs)
+	for e := range errs {
+		t.Fatal(e)
+	}
+	if got := tl.Unknown(append(append([]uint64(nil), known...), never...)); len(got) != len(never) {
+		t.Fatalf("after adding: Unknown kept %d sums, want the %d never added", len(got), len(never))
+	}
+	if tl.Len() != len(known)+len(adding) {
+		t.Fatalf("Len %d, want %d", tl.Len(), len(known)+len(adding))
 	}
 }

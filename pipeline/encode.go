@@ -87,8 +87,12 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 
 	workers := make([]*spec.Worker, nw)
 	var wg sync.WaitGroup
-	// Hashing mode: the workers hand their keys' sums over with each
-	// batch, and the writer keeps the one collision tally.
+	// Hashing mode: the writer keeps the one collision tally. Each worker
+	// looks its batch's key sums up in it (Tally.Unknown) and hands over
+	// only those it does not hold yet: so the lookups, one per key
+	// occurrence less repeats, are spread over the workers, and the
+	// writer, which cannot be parallel, inserts little more than the
+	// distinct keys.
 	var tally *hashing.Tally
 	for i := 0; i < nw; i++ {
 		workers[i] = enc.NewWorker(true)
@@ -105,6 +109,9 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 			for b := range work {
 				encodeBatch(w, enc, b, &row, o, ntext)
 				b.sums = w.TakeSums(b.sums)
+				if tally != nil {
+					b.sums = tally.Unknown(b.sums)
+				}
 				select {
 				case done <- b:
 				case <-stop:

@@ -43,6 +43,22 @@ func Make[T any](n int) []T {
 	return unsafe.Slice((*T)(unsafe.Pointer(&b[0])), n)
 }
 
+// Release gives back the memory of a table from Make but keeps its
+// addresses readable until Free: reads then return zeros. It is for a
+// table that other goroutines may still be reading, where a zero reads as
+// "empty". A heap slice is left alone.
+func Release[T any](s []T) {
+	if cap(s) == 0 {
+		return
+	}
+	var zero T
+	size := uintptr(cap(s)) * unsafe.Sizeof(zero)
+	if size < MinBytes {
+		return
+	}
+	release(unsafe.Slice((*byte)(unsafe.Pointer(unsafe.SliceData(s))), int(size)))
+}
+
 // Free gives back a table from Make. Only the slice Make returned (not a
 // re-slice of it) may be given, and not used again; a heap slice is left to
 // the garbage collector.

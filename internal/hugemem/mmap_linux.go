@@ -47,3 +47,15 @@ func unmap(t []byte) {
 		_ = syscall.Munmap(whole)
 	}
 }
+
+// release drops the pages of a table from mapHuge; the mapping stays, and
+// reads of it return zeros. Other memory is left alone.
+func release(t []byte) {
+	p := uintptr(unsafe.Pointer(&t[0]))
+	mu.Lock()
+	_, ok := mapped[p]
+	mu.Unlock()
+	if ok {
+		_ = syscall.Madvise(t, syscall.MADV_DONTNEED)
+	}
+}
