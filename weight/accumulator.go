@@ -15,18 +15,20 @@ type Row struct {
 
 // Accumulator sums (column, value) pairs for one document and finishes
 // them into a Row. It is reusable and not safe for concurrent use: keep
-// one per goroutine. The zero value is ready to use. Once its internal tables have grown to the largest
-// document seen, Add and Finish do not allocate.
+// one per goroutine. The zero value is ready to use. Once its buffers have
+// grown to the largest document seen, Add and Finish do not allocate.
 //
-// Repeated columns are summed in an open-addressing table keyed by column,
-// so sorting at Finish handles each distinct column once.
+// Add only appends; Finish sorts the pairs by column (a stable sort, so a
+// column's values stay in the order they were added) and sums each
+// column's run. Most of a document's keys are distinct, so this costs less
+// than finding each column in a table as it is added; a long document
+// whose columns repeat a lot is folded the same way as it grows, so memory
+// follows its distinct columns.
 type Accumulator struct {
-	cols   []int     // distinct columns in first-touch order
-	vals   []float64 // sums, parallel to cols
-	slots  []uint64  // table: gen<<32 | position in cols; stale if gen differs
-	gen    uint64    // current generation, 1..2^32-1
-	shift  uint      // 64 - log2(len(slots))
+	cols   []int     // columns in the order added (folded: see fold)
+	vals   []float64 // values, parallel to cols
 	maxCol int       // largest column added since Reset
+	folded int       // len(cols) after the last fold; 0 if none
 	keys   []uint64  // Finish scratch: col<<32 | position
 	perm   []int32   // Finish scratch when a column does not fit 32 bits
 	counts []int32   // Finish scratch: bucket counts
@@ -36,76 +38,81 @@ type Accumulator struct {
 	_ [64]byte
 }
 
-const minSlots = 64
-
 // NewAccumulator returns an empty Accumulator.
-func NewAccumulator() *Accumulator {
-	a := &Accumulator{}
-	a.grow(minSlots)
-	return a
-}
+func NewAccumulator() *Accumulator { return &Accumulator{} }
 
-// grow replaces the table with one of n slots (a power of two) and
-// re-inserts the columns collected so far.
-func (a *Accumulator) grow(n int) {
-	a.slots = make([]uint64, n)
-	a.shift = uint(64 - log2(n))
-	a.gen = 1
-	for p, c := range a.cols {
-		s := a.home(c)
-		for a.slots[s]>>32 == a.gen {
-			s = (s + 1) & (len(a.slots) - 1)
-		}
-		a.slots[s] = a.gen<<32 | uint64(p)
-	}
-}
-
-func log2(n int) int {
-	k := 0
-	for 1<<k < n {
-		k++
-	}
-	return k
-}
-
-// home is the first slot probed for column c (Fibonacci hashing).
-func (a *Accumulator) home(c int) int {
-	return int((uint64(c) * 0x9E3779B97F4A7C15) >> a.shift)
-}
+// foldAt is how many pairs an Accumulator holds, beyond twice what it held
+// after its last fold, before it folds repeated columns together.
+const foldAt = 1 << 16
 
 // Add adds v to column col of the current document. Adding to a column
-// again sums the values (signed hashing may add -1). col must not be
-// negative.
+// again sums the values (signed hashing may add -1), in the order they
+// were added. col must not be negative.
 func (a *Accumulator) Add(col int, v float64) {
 	if col < 0 {
 		panic("weight: negative column")
 	}
-	if a.slots == nil {
-		a.grow(minSlots)
+	a.cols = append(a.cols, col)
+	a.vals = append(a.vals, v)
+	if col > a.maxCol {
+		a.maxCol = col
 	}
-	mask := len(a.slots) - 1
-	for s := a.home(col); ; s = (s + 1) & mask {
-		e := a.slots[s]
-		if e>>32 != a.gen {
-			// Empty slot: a new column. Keep the table at most half full.
-			p := len(a.cols)
-			a.cols = append(a.cols, col)
-			a.vals = append(a.vals, v)
-			if col > a.maxCol {
-				a.maxCol = col
-			}
-			if 2*len(a.cols) > len(a.slots) {
-				a.grow(2 * len(a.slots))
-			} else {
-				a.slots[s] = a.gen<<32 | uint64(p)
-			}
-			return
+	if len(a.cols) >= 2*a.folded+foldAt {
+		a.fold()
+	}
+}
+
+// fold sums each column's values so far into one pair, at the column's
+// first position, keeping first-added order; later values of the column
+// are added after that sum, as they would have been.
+func (a *Accumulator) fold() {
+	order := a.sorted()
+	n := 0
+	for i := 0; i < len(order); {
+		p := order[i]
+		c, v := a.cols[p], a.vals[p]
+		j := i + 1
+		for ; j < len(order) && a.cols[order[j]] == c; j++ {
+			v += a.vals[order[j]]
 		}
-		if p := int(uint32(e)); a.cols[p] == col {
-			a.vals[p] += v
-			return
+		// Reuse the permutation: record (position, column, sum) by
+		// writing the sum at the first position, and mark the others.
+		a.vals[p] = v
+		for k := i + 1; k < j; k++ {
+			a.cols[order[k]] = -1
+		}
+		n++
+		i = j
+	}
+	w := 0
+	for p, c := range a.cols {
+		if c >= 0 {
+			a.cols[w], a.vals[w] = c, a.vals[p]
+			w++
 		}
 	}
+	a.cols, a.vals = a.cols[:w], a.vals[:w]
+	a.folded = w
+}
+
+// sorted returns the positions of the pairs ordered by column, and by
+// position within a column.
+func (a *Accumulator) sorted() []int32 {
+	perm := a.perm[:0]
+	if a.maxCol <= math.MaxUint32 && len(a.cols) <= math.MaxUint32 {
+		keys := a.bucketSort()
+		for _, k := range keys {
+			perm = append(perm, int32(uint32(k)))
+		}
+		a.keys = keys
+	} else {
+		for p := range a.cols {
+			perm = append(perm, int32(p))
+		}
+		slices.SortStableFunc(perm, func(x, y int32) int { return cmp.Compare(a.cols[x], a.cols[y]) })
+	}
+	a.perm = perm
+	return perm
 }
 
 // bucketSort returns the current document's columns packed as col<<32 |
@@ -208,11 +215,7 @@ func (a *Accumulator) Reset() {
 	a.cols = a.cols[:0]
 	a.vals = a.vals[:0]
 	a.maxCol = 0
-	a.gen++
-	if a.gen >= 1<<32 {
-		clear(a.slots)
-		a.gen = 1
-	}
+	a.folded = 0
 }
 
 // Finish writes the current document's row into dst and resets the
@@ -227,9 +230,15 @@ func (a *Accumulator) Reset() {
 // reuses the capacity of dst.Indices and dst.Values.
 func (a *Accumulator) Finish(tf TF, idf []float64, norm Norm, dst *Row) {
 	idx, val := dst.Indices[:0], dst.Values[:0]
-	emit := func(p int) {
-		c := a.cols[p]
-		w := tf.Apply(a.vals[p])
+	order := a.sorted()
+	for i := 0; i < len(order); {
+		p := order[i]
+		c, v := a.cols[p], a.vals[p]
+		i++
+		for ; i < len(order) && a.cols[order[i]] == c; i++ {
+			v += a.vals[order[i]]
+		}
+		w := tf.Apply(v)
 		if idf != nil {
 			w *= idf[c]
 		}
@@ -237,24 +246,6 @@ func (a *Accumulator) Finish(tf TF, idf []float64, norm Norm, dst *Row) {
 			idx = append(idx, c)
 			val = append(val, w)
 		}
-	}
-	if a.maxCol <= math.MaxUint32 {
-		// One packed key per column: col<<32 | position.
-		keys := a.bucketSort()
-		for _, k := range keys {
-			emit(int(uint32(k)))
-		}
-		a.keys = keys
-	} else {
-		perm := a.perm[:0]
-		for p := range a.cols {
-			perm = append(perm, int32(p))
-		}
-		slices.SortFunc(perm, func(x, y int32) int { return cmp.Compare(a.cols[x], a.cols[y]) })
-		for _, p := range perm {
-			emit(int(p))
-		}
-		a.perm = perm
 	}
 	switch norm {
 	case NormL1:
