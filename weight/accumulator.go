@@ -67,21 +67,15 @@ func (a *Accumulator) Add(col int, v float64) {
 // are added after that sum, as they would have been.
 func (a *Accumulator) fold() {
 	order := a.sorted()
-	n := 0
 	for i := 0; i < len(order); {
 		p := order[i]
 		c, v := a.cols[p], a.vals[p]
 		j := i + 1
 		for ; j < len(order) && a.cols[order[j]] == c; j++ {
 			v += a.vals[order[j]]
+			a.cols[order[j]] = -1 // folded into p
 		}
-		// Reuse the permutation: record (position, column, sum) by
-		// writing the sum at the first position, and mark the others.
 		a.vals[p] = v
-		for k := i + 1; k < j; k++ {
-			a.cols[order[k]] = -1
-		}
-		n++
 		i = j
 	}
 	w := 0
