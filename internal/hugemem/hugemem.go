@@ -48,28 +48,27 @@ func Make[T any](n int) []T {
 // table that other goroutines may still be reading, where a zero reads as
 // "empty". A heap slice is left alone.
 func Release[T any](s []T) {
-	if cap(s) == 0 {
-		return
+	if b := mappable(s); b != nil {
+		release(b)
 	}
-	var zero T
-	size := uintptr(cap(s)) * unsafe.Sizeof(zero)
-	if size < MinBytes {
-		return
-	}
-	release(unsafe.Slice((*byte)(unsafe.Pointer(unsafe.SliceData(s))), int(size)))
 }
 
 // Free gives back a table from Make. Only the slice Make returned (not a
 // re-slice of it) may be given, and not used again; a heap slice is left to
 // the garbage collector.
 func Free[T any](s []T) {
-	if cap(s) == 0 {
-		return
+	if b := mappable(s); b != nil {
+		unmap(b)
 	}
+}
+
+// mappable returns the bytes of s when it is large enough that Make may
+// have mapped it, else nil.
+func mappable[T any](s []T) []byte {
 	var zero T
 	size := uintptr(cap(s)) * unsafe.Sizeof(zero)
-	if size < MinBytes {
-		return
+	if cap(s) == 0 || size < MinBytes {
+		return nil
 	}
-	unmap(unsafe.Slice((*byte)(unsafe.Pointer(unsafe.SliceData(s))), int(size)))
+	return unsafe.Slice((*byte)(unsafe.Pointer(unsafe.SliceData(s))), int(size))
 }
