@@ -54,12 +54,16 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	if o.Base != 0 && o.Base != 1 {
 		o.Base = 1
 	}
-	free := make(chan *batch, nw*3)
-	for i := 0; i < nw*3; i++ {
+	// Each worker reads a batch (one at a time, in order), encodes it and
+	// hands it to the ordered commit, which writes every batch that is
+	// next in order; no goroutine only reads or only writes. So --workers
+	// N keeps N cores busy, and a batch is written from the cache of the
+	// core that encoded it, most of the time.
+	nbatch := nw * 3
+	free := make(chan *batch, nbatch)
+	for i := 0; i < nbatch; i++ {
 		free <- &batch{}
 	}
-	work := make(chan *batch, nw)
-	done := make(chan *batch, nw*3)
 	stop := make(chan struct{})
 	var stopOnce sync.Once
 	halt := func() { stopOnce.Do(func() { close(stop) }) }
@@ -68,33 +72,43 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	ntable := len(enc.Spec().Content.Fields)
 	nfield := ntext + ntable
 	obs := enc.NewFieldObserver()
+	var readMu sync.Mutex // guards br and readErr
 	var readErr error
-	var readBytes int64
-	readerDone := make(chan struct{})
-	go func() {
-		defer close(readerDone)
-		readErr = readBatches(r, nfield, free, work, stop, func(rec *corpus.Record) error {
-			if o.Progress != nil {
-				o.Progress(r.BytesRead())
-			}
-			if _, err := enc.Label(rec.Label, o.LabelFallback); err != nil {
-				return &RecordError{File: o.Name, Line: rec.Line, Err: err}
-			}
-			return observeFields(o.Name, rec, ntable, obs.Observe)
-		}, o.Rejects)
-		readBytes = r.BytesRead()
-	}()
+	br := &batchReader{r: r, nfield: nfield, rj: o.Rejects, onRecord: func(rec *corpus.Record) error {
+		if o.Progress != nil {
+			o.Progress(r.BytesRead())
+		}
+		if _, err := enc.Label(rec.Label, o.LabelFallback); err != nil {
+			return &RecordError{File: o.Name, Line: rec.Line, Err: err}
+		}
+		return observeFields(o.Name, rec, ntable, obs.Observe)
+	}}
+	// read fills b with the next batch; false at the end of the corpus,
+	// after a reading error (kept for the end), or once the run stops.
+	read := func(b *batch) bool {
+		readMu.Lock()
+		defer readMu.Unlock()
+		select {
+		case <-stop:
+			return false
+		default:
+		}
+		ok, err := br.fill(b)
+		if err != nil {
+			readErr = err
+		}
+		return ok
+	}
 
-	workers := make([]*spec.Worker, nw)
-	var wg sync.WaitGroup
-	// Hashing mode: the writer keeps the one collision tally. Each worker
-	// looks its batch's key sums up in it (Tally.Unknown) and hands over
-	// only those it does not hold yet: so the lookups, one per key
-	// occurrence less repeats, are spread over the workers, and the
-	// writer, which cannot be parallel, inserts little more than the
-	// distinct keys.
+	// Hashing mode: the run keeps one collision tally. Each worker looks
+	// its batch's key sums up in it (Tally.Unknown) and hands over only
+	// those it does not hold yet, which the commit adds: so the lookups,
+	// one per key occurrence less repeats, are spread over the workers,
+	// and the commit, which cannot be parallel, inserts little more than
+	// the distinct keys.
 	var tally *hashing.Tally
-	for i := 0; i < nw; i++ {
+	workers := make([]*spec.Worker, nw)
+	for i := range workers {
 		workers[i] = enc.NewWorker(true)
 		if workers[i].Stats.Tally != nil {
 			if tally == nil {
@@ -102,27 +116,11 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 			}
 			workers[i].CollectSums()
 		}
-		wg.Add(1)
-		go func(w *spec.Worker) {
-			defer wg.Done()
-			var row weight.Row
-			for b := range work {
-				encodeBatch(w, enc, b, &row, o, ntext)
-				b.sums = w.TakeSums(b.sums)
-				if tally != nil {
-					b.sums = tally.Unknown(b.sums)
-				}
-				select {
-				case done <- b:
-				case <-stop:
-					return
-				}
-			}
-		}(workers[i])
 	}
-	go func() { wg.Wait(); close(done) }()
 
-	// Ordered writer.
+	// The ordered commit: batches wait in pending until every batch
+	// before them is written.
+	var commitMu sync.Mutex // guards everything below
 	bw := newErrWriter(out)
 	pending := map[int]*batch{}
 	next := 0
@@ -130,12 +128,11 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	var st batchStats
 	st.labelRows = map[float64]int64{}
 	var rows, inBytes int64
-	for b := range done {
-		if firstErr != nil {
-			continue
-		}
+	commit := func(b *batch) {
+		commitMu.Lock()
+		defer commitMu.Unlock()
 		pending[b.seq] = b
-		for {
+		for firstErr == nil {
 			nb, ok := pending[next]
 			if !ok {
 				break
@@ -158,14 +155,39 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 			rows += int64(len(nb.lines))
 			inBytes += nb.bytes
 			st.merge(&nb.st)
-			select {
-			case free <- nb:
-			default:
-			}
+			free <- nb // never blocks: free holds every batch
 		}
 	}
+
+	var wg sync.WaitGroup
+	for _, w := range workers {
+		wg.Add(1)
+		go func(w *spec.Worker) {
+			defer wg.Done()
+			var row weight.Row
+			for {
+				var b *batch
+				select {
+				case b = <-free:
+				case <-stop:
+					return
+				}
+				if !read(b) {
+					free <- b
+					return
+				}
+				encodeBatch(w, enc, b, &row, o, ntext)
+				b.sums = w.TakeSums(b.sums)
+				if tally != nil {
+					b.sums = tally.Unknown(b.sums)
+				}
+				commit(b)
+			}
+		}(w)
+	}
+	wg.Wait()
 	halt()
-	<-readerDone
+	readBytes := r.BytesRead()
 	if firstErr == nil {
 		firstErr = readErr
 	}

@@ -1,5 +1,5 @@
-// Package pipeline runs learn and encode over a corpus with one reader, a
-// pool of workers and an ordered writer, and gathers the run's figures.
+// Package pipeline runs learn and encode over a corpus with a pool of
+// workers, keeping input order, and gathers the run's figures.
 package pipeline
 
 import (
@@ -157,66 +157,91 @@ func (rj *Rejects) add(err error, raw []byte) error {
 	return werr
 }
 
+// batchReader fills batches with the records of a corpus reader, in
+// order. It is not safe for concurrent use.
+type batchReader struct {
+	r      *corpus.Reader
+	nfield int
+	// onRecord, when not nil, checks each record before it is added; see
+	// readBatches.
+	onRecord func(*corpus.Record) error
+	rj       *Rejects
+	seq      int  // number of the next batch
+	done     bool // the reader is at its end, or failed
+}
+
+// fill resets b and fills it with the next records, up to a batch's
+// bounds, numbering it. It reports whether b holds any record. An error
+// ends the reading: records that cannot be read, or that onRecord refuses
+// with a *RecordError, are skipped into the Rejects instead when there
+// are some.
+func (br *batchReader) fill(b *batch) (bool, error) {
+	b.reset(br.seq, br.nfield)
+	for !br.done && !b.full() {
+		if !br.r.Scan() {
+			err := br.r.Err()
+			if err == nil {
+				br.done = true
+				break
+			}
+			raw := br.r.Raw()
+			if br.rj == nil || !br.r.Skip() {
+				br.done = true
+				return false, err
+			}
+			if werr := br.rj.add(err, raw); werr != nil {
+				br.done = true
+				return false, werr
+			}
+			continue
+		}
+		rec := br.r.Record()
+		if br.onRecord != nil {
+			if err := br.onRecord(rec); err != nil {
+				var re *RecordError
+				if br.rj == nil || !errors.As(err, &re) {
+					br.done = true
+					return false, err
+				}
+				if werr := br.rj.add(err, br.r.Raw()); werr != nil {
+					br.done = true
+					return false, werr
+				}
+				continue
+			}
+		}
+		b.add(rec)
+	}
+	if len(b.lines) == 0 {
+		return false, nil
+	}
+	b.seal()
+	br.seq++
+	return true, nil
+}
+
 // readBatches reads r into batches sent on out, taking empty batches from
 // free; it closes out when done and returns the reader's error. With rj,
 // records that cannot be read, or that onRecord refuses with a
 // *RecordError, are skipped into rj instead of ending the run.
 func readBatches(r *corpus.Reader, nfield int, free chan *batch, out chan<- *batch, stop <-chan struct{}, onRecord func(*corpus.Record) error, rj *Rejects) error {
 	defer close(out)
-	seq := 0
-	b := <-free
-	b.reset(seq, nfield)
+	br := &batchReader{r: r, nfield: nfield, onRecord: onRecord, rj: rj}
 	for {
-		if !r.Scan() {
-			err := r.Err()
-			if err == nil {
-				break
-			}
-			raw := r.Raw()
-			if rj == nil || !r.Skip() {
-				return err
-			}
-			if werr := rj.add(err, raw); werr != nil {
-				return werr
-			}
-			continue
+		var b *batch
+		select {
+		case b = <-free:
+		case <-stop:
+			return nil
 		}
-		rec := r.Record()
-		if onRecord != nil {
-			if err := onRecord(rec); err != nil {
-				var re *RecordError
-				if rj == nil || !errors.As(err, &re) {
-					return err
-				}
-				if werr := rj.add(err, r.Raw()); werr != nil {
-					return werr
-				}
-				continue
-			}
+		ok, err := br.fill(b)
+		if err != nil || !ok {
+			return err
 		}
-		b.add(rec)
-		if b.full() {
-			b.seal()
-			select {
-			case out <- b:
-			case <-stop:
-				return nil
-			}
-			seq++
-			select {
-			case b = <-free:
-			case <-stop:
-				return nil
-			}
-			b.reset(seq, nfield)
-		}
-	}
-	if len(b.lines) > 0 {
-		b.seal()
 		select {
 		case out <- b:
 		case <-stop:
+			return nil
 		}
 	}
-	return nil
 }
