@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 
@@ -245,6 +246,40 @@ func TestWriteErrorEndsRun(t *testing.T) {
 			if !errors.Is(err, errDiskFull) {
 				t.Fatalf("workers %d, fail after %d: err = %v", w, n, err)
 			}
+		}
+	}
+}
+
+// TestFirstErrorInInputOrder: over many batches, with a label the spec
+// cannot map early on and a record that cannot be read (a field too many)
+// later, the run reports the first in input order, naming its line, for
+// any worker count; without the early one, it reports the later.
+func TestFirstErrorInInputOrder(t *testing.T) {
+	train, test := demoCorpus(t, 30000)
+	s := learnSpec(t, train, spec.ModeVocabulary, 2)
+	enc, _ := spec.NewEncoder(s)
+	lines := strings.SplitAfter(string(test), "\n")
+	if len(lines) < 5000 {
+		t.Fatalf("only %d lines", len(lines))
+	}
+	badLabel, badRow := 2500, 4700 // 0-based line indexes; line numbers are one more
+	withLabel := append([]string(nil), lines...)
+	f := strings.Split(withLabel[badLabel], "\t") // id, channel, team, ...
+	f[2] = "parking"
+	withLabel[badLabel] = strings.Join(f, "\t")
+	withLabel[badRow] = "9999\tbikes\ttext\textra field\n"
+	onlyRow := append([]string(nil), lines...)
+	onlyRow[badRow] = withLabel[badRow]
+	for _, w := range []int{1, 2, 3, 4} {
+		_, err := Encode(reader(t, []byte(strings.Join(withLabel, ""))), enc, ioDiscard{}, EncodeOptions{Name: "new.tsv", Workers: w})
+		var re *RecordError
+		if !errors.As(err, &re) || re.Line != int64(badLabel+1) || !strings.Contains(err.Error(), "parking") {
+			t.Fatalf("workers %d: err = %v, want the label error on line %d", w, err, badLabel+1)
+		}
+		_, err = Encode(reader(t, []byte(strings.Join(onlyRow, ""))), enc, ioDiscard{}, EncodeOptions{Name: "new.tsv", Workers: w})
+		var pe *corpus.ParseError
+		if !errors.As(err, &pe) || !strings.Contains(err.Error(), fmt.Sprintf(":%d:", badRow+1)) {
+			t.Fatalf("workers %d: err = %v, want the reading error on line %d", w, err, badRow+1)
 		}
 	}
 }
