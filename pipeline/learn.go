@@ -72,39 +72,45 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	for i := 0; i < nb; i++ {
 		free <- &batch{}
 	}
-	work := make(chan *batch, nw)
-	stop := make(chan struct{})
 	c := l.Content()
 	ntext, ntable := len(c.Input.Text), len(c.Fields)
 	hasLabel := c.Input.Label != ""
 	labelCount := map[string]int64{}
 	var labelErr error
 
+	// Each worker reads the next batch itself, under readMu, in order (see
+	// Encode).
+	var readMu sync.Mutex // guards br and readErr
 	var readErr error
-	readerDone := make(chan struct{})
-	go func() {
-		defer close(readerDone)
-		readErr = readBatches(r, ntext+ntable, free, work, stop, func(rec *corpus.Record) error {
-			if o.Progress != nil {
-				o.Progress(r.BytesRead())
-			}
-			if hasLabel && len(rec.Label) == 0 {
-				return &RecordError{File: o.Name, Line: rec.Line, Err: fmt.Errorf("label field %q is empty", c.Input.Label)}
-			}
-			if err := observeFields(o.Name, rec, ntable, l.ObserveFields); err != nil {
-				return err
-			}
-			if !hasLabel {
-				return nil
-			}
-			if n, ok := labelCount[string(rec.Label)]; ok || len(labelCount) < maxLabels {
-				labelCount[string(rec.Label)] = n + 1
-			} else {
-				return fmt.Errorf("%s:%d: more than %d distinct labels in field %q; is it really a label?", o.Name, rec.Line, maxLabels, c.Input.Label)
-			}
+	br := &batchReader{r: r, nfield: ntext + ntable, rj: o.Rejects, onRecord: func(rec *corpus.Record) error {
+		if o.Progress != nil {
+			o.Progress(r.BytesRead())
+		}
+		if hasLabel && len(rec.Label) == 0 {
+			return &RecordError{File: o.Name, Line: rec.Line, Err: fmt.Errorf("label field %q is empty", c.Input.Label)}
+		}
+		if err := observeFields(o.Name, rec, ntable, l.ObserveFields); err != nil {
+			return err
+		}
+		if !hasLabel {
 			return nil
-		}, o.Rejects)
-	}()
+		}
+		if n, ok := labelCount[string(rec.Label)]; ok || len(labelCount) < maxLabels {
+			labelCount[string(rec.Label)] = n + 1
+		} else {
+			return fmt.Errorf("%s:%d: more than %d distinct labels in field %q; is it really a label?", o.Name, rec.Line, maxLabels, c.Input.Label)
+		}
+		return nil
+	}}
+	read := func(b *batch) bool {
+		readMu.Lock()
+		defer readMu.Unlock()
+		ok, err := br.fill(b)
+		if err != nil {
+			readErr = err
+		}
+		return ok
+	}
 
 	workers := make([]*spec.LearnWorker, nw)
 	var docs, empty, inBytes, emitted int64
@@ -139,7 +145,12 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 		wg.Add(1)
 		go func(w *spec.LearnWorker) {
 			defer wg.Done()
-			for b := range work {
+			for {
+				b := <-free
+				if !read(b) {
+					free <- b
+					return
+				}
 				var e, n int64
 				for _, texts := range b.texts {
 					k := w.Observe(texts[:ntext])
@@ -165,7 +176,6 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	wg.Wait()
 	close(parts)
 	<-mergeDone
-	<-readerDone
 	if readErr != nil {
 		return nil, nil, nil, readErr
 	}

@@ -219,29 +219,3 @@ func (br *batchReader) fill(b *batch) (bool, error) {
 	br.seq++
 	return true, nil
 }
-
-// readBatches reads r into batches sent on out, taking empty batches from
-// free; it closes out when done and returns the reader's error. With rj,
-// records that cannot be read, or that onRecord refuses with a
-// *RecordError, are skipped into rj instead of ending the run.
-func readBatches(r *corpus.Reader, nfield int, free chan *batch, out chan<- *batch, stop <-chan struct{}, onRecord func(*corpus.Record) error, rj *Rejects) error {
-	defer close(out)
-	br := &batchReader{r: r, nfield: nfield, onRecord: onRecord, rj: rj}
-	for {
-		var b *batch
-		select {
-		case b = <-free:
-		case <-stop:
-			return nil
-		}
-		ok, err := br.fill(b)
-		if err != nil || !ok {
-			return err
-		}
-		select {
-		case out <- b:
-		case <-stop:
-			return nil
-		}
-	}
-}
