@@ -284,6 +284,9 @@ func TestMemoryLimitRSS(t *testing.T) {
 	if _, err := os.Stat("/proc/self/statm"); err != nil {
 		t.Skip("no /proc: the memory model needs the process's resident set")
 	}
+	if raceDetector {
+		t.Skip("-race: the race detector's shadow memory multiplies the resident set")
+	}
 	dir := t.TempDir()
 	corpusPath := filepath.Join(dir, "many.txt")
 	var b bytes.Buffer

@@ -1,0 +1,6 @@
+//go:build race
+
+package main
+
+// raceDetector is on: resident-set figures are not the program's own.
+const raceDetector = true
