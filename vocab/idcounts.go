@@ -163,7 +163,11 @@ func (c *IDCounts) flush() {
 	if len(c.buf) == 0 {
 		return
 	}
-	for 2*(c.n+len(c.buf)) > len(c.slots) {
+	// At most two thirds full: slots are 32 bytes, and memory touched for
+	// the first time is slow on the build machines (learn on the 107 MB
+	// benchmark corpus: peak RSS 211 MB at half full, 133 MB at two
+	// thirds, and no slower).
+	for 3*(c.n+len(c.buf)) > 2*len(c.slots) {
 		c.grow()
 	}
 	mask := len(c.slots) - 1
@@ -202,7 +206,7 @@ func (c *IDCounts) addCounted(key uint64, count, docs int64) {
 // slot returns the slot of key, claiming an empty one (fresh) if key is
 // new. The pointer is valid until the next call.
 func (c *IDCounts) slot(key uint64) (s *idSlot, fresh bool) {
-	if 2*(c.n+1) > len(c.slots) {
+	if 3*(c.n+1) > 2*len(c.slots) {
 		c.grow()
 	}
 	mask := len(c.slots) - 1
