@@ -12,63 +12,13 @@ import (
 	"github.com/bowline/bowline/weight"
 )
 
-// TestLongDocumentChunks: a document longer than one chunk gives exactly
-// the keys of a single n-gram pass over all its tokens.
-func TestLongDocumentChunks(t *testing.T) {
-	for _, words := range []ngram.Range{{Min: 1, Max: 1}, {Min: 1, Max: 3}, {Min: 2, Max: 4}} {
-		s := &Settings{
-			Input: Input{Format: "lines", Text: []string{"line"}}, Tokens: tokenize.DefaultOptions(),
-			NGrams: ngram.Config{Words: words, Chars: ngram.Range{Min: 3, Max: 3}},
-			Mode:   ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(), TF: weight.TFCount,
-		}
-		c, err := s.Content()
-		if err != nil {
-			t.Fatal(err)
-		}
-		a, err := c.Analysis()
-		if err != nil {
-			t.Fatal(err)
-		}
-		var b strings.Builder
-		for i := 0; i < 3*chunkTokens+17; i++ {
-			fmt.Fprintf(&b, "w%d ", i%97)
-		}
-		text := []byte(b.String())
-		var got []string
-		a.NewAnalyzer().Analyze([][]byte{text}, func(k []byte, _ int) { got = append(got, string(k)) })
-
-		var toks [][]byte
-		tok, _ := tokenize.New(tokenize.DefaultOptions())
-		tok.Each(text, func(t []byte, _ tokenize.Kind) { toks = append(toks, append([]byte(nil), t...)) })
-		var want []string
-		ngram.NewBuilder(ngram.Config{Words: words, Chars: ngram.Range{Min: 3, Max: 3}}).Emit(nil, toks, func(k []byte, _ ngram.Kind, _ int) {
-			want = append(want, string(k))
-		})
-		sort.Strings(got)
-		sort.Strings(want)
-		if len(got) != len(want) {
-			t.Fatalf("words %v: %d keys, want %d", words, len(got), len(want))
-		}
-		for i := range got {
-			if got[i] != want[i] {
-				t.Fatalf("words %v: key %d is %q, want %q", words, i, got[i], want[i])
-			}
-		}
-	}
-}
-
-// TestLongDocumentChunksStemmed: with a stemmer, a document longer than
-// one chunk gives the keys of its tokens each stemmed exactly once, the
-// context carried from chunk to chunk included. The words are ones whose
-// Porter2 stem stems again to something else (kljensen/snowball English,
-// found by stemming the benchmark corpus twice: "representatives" gives
-// "repres", then "repr"), so stemming a token twice would show.
-func TestLongDocumentChunksStemmed(t *testing.T) {
-	words := strings.Fields("representatives considerable purposes pleasing only increase provisional precise affectionate incursions")
+// longDocument returns the Analysis of ng (and stem) for one "lines"
+// field, and a text of 3 chunks and then some, its i-th word word(i).
+func longDocument(t *testing.T, ng ngram.Config, stem string, word func(i int) string) (*Analysis, []byte) {
+	t.Helper()
 	s := &Settings{
 		Input: Input{Format: "lines", Text: []string{"line"}}, Tokens: tokenize.DefaultOptions(),
-		NGrams: ngram.Config{Words: ngram.Range{Min: 1, Max: 3}},
-		Stem:   "en", Mode: ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(), TF: weight.TFCount,
+		NGrams: ng, Stem: stem, Mode: ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(), TF: weight.TFCount,
 	}
 	c, err := s.Content()
 	if err != nil {
@@ -80,9 +30,55 @@ func TestLongDocumentChunksStemmed(t *testing.T) {
 	}
 	var b strings.Builder
 	for i := 0; i < 3*chunkTokens+17; i++ {
-		fmt.Fprintf(&b, "%s ", words[(i*7)%len(words)])
+		b.WriteString(word(i))
+		b.WriteByte(' ')
 	}
-	text := []byte(b.String())
+	return a, []byte(b.String())
+}
+
+// sameKeys fails unless got and want hold the same keys, in any order.
+func sameKeys(t *testing.T, label string, got, want []string) {
+	t.Helper()
+	sort.Strings(got)
+	sort.Strings(want)
+	if len(got) != len(want) {
+		t.Fatalf("%s: %d keys, want %d", label, len(got), len(want))
+	}
+	for i := range got {
+		if got[i] != want[i] {
+			t.Fatalf("%s: key %d is %q, want %q", label, i, got[i], want[i])
+		}
+	}
+}
+
+// TestLongDocumentChunks: a document longer than one chunk gives exactly
+// the keys of a single n-gram pass over all its tokens.
+func TestLongDocumentChunks(t *testing.T) {
+	for _, words := range []ngram.Range{{Min: 1, Max: 1}, {Min: 1, Max: 3}, {Min: 2, Max: 4}} {
+		ng := ngram.Config{Words: words, Chars: ngram.Range{Min: 3, Max: 3}}
+		a, text := longDocument(t, ng, "", func(i int) string { return fmt.Sprintf("w%d", i%97) })
+		var got []string
+		a.NewAnalyzer().Analyze([][]byte{text}, func(k []byte, _ int) { got = append(got, string(k)) })
+
+		var toks [][]byte
+		tok, _ := tokenize.New(tokenize.DefaultOptions())
+		tok.Each(text, func(t []byte, _ tokenize.Kind) { toks = append(toks, append([]byte(nil), t...)) })
+		var want []string
+		ngram.NewBuilder(ng).Emit(nil, toks, func(k []byte, _ ngram.Kind, _ int) { want = append(want, string(k)) })
+		sameKeys(t, fmt.Sprintf("words %v", words), got, want)
+	}
+}
+
+// TestLongDocumentChunksStemmed: with a stemmer, a document longer than
+// one chunk gives the keys of its tokens each stemmed exactly once, the
+// context carried from chunk to chunk included. The words are ones whose
+// Porter2 stem stems again to something else (kljensen/snowball English,
+// found by stemming the benchmark corpus twice: "representatives" gives
+// "repres", then "repr"), so stemming a token twice would show.
+func TestLongDocumentChunksStemmed(t *testing.T) {
+	words := strings.Fields("representatives considerable purposes pleasing only increase provisional precise affectionate incursions")
+	ng := ngram.Config{Words: ngram.Range{Min: 1, Max: 3}}
+	a, text := longDocument(t, ng, "en", func(i int) string { return words[(i*7)%len(words)] })
 	var got []string
 	a.NewAnalyzer().Analyze([][]byte{text}, func(k []byte, _ int) { got = append(got, string(k)) })
 
@@ -94,17 +90,6 @@ func TestLongDocumentChunksStemmed(t *testing.T) {
 	tok, _ := tokenize.New(tokenize.DefaultOptions())
 	tok.Each(text, func(t []byte, _ tokenize.Kind) { toks = append(toks, append([]byte(nil), stem.Stem(t)...)) })
 	var want []string
-	ngram.NewBuilder(ngram.Config{Words: ngram.Range{Min: 1, Max: 3}}).Emit(nil, toks, func(k []byte, _ ngram.Kind, _ int) {
-		want = append(want, string(k))
-	})
-	sort.Strings(got)
-	sort.Strings(want)
-	if len(got) != len(want) {
-		t.Fatalf("%d keys, want %d", len(got), len(want))
-	}
-	for i := range got {
-		if got[i] != want[i] {
-			t.Fatalf("key %d is %q, want %q", i, got[i], want[i])
-		}
-	}
+	ngram.NewBuilder(ng).Emit(nil, toks, func(k []byte, _ ngram.Kind, _ int) { want = append(want, string(k)) })
+	sameKeys(t, "stemmed", got, want)
 }
