@@ -10,12 +10,11 @@ import (
 // fall into them: the answer to "which keys share this column". It is not
 // safe for concurrent use.
 type BucketKeys struct {
-	z      *Analyzer
-	h      *hashing.Hasher
-	width  uint64
-	keys   map[uint64]map[string]struct{}
-	limit  int
-	fields int
+	z     *Analyzer
+	h     *hashing.Hasher
+	width uint64
+	keys  map[uint64]map[string]struct{}
+	limit int
 }
 
 // NewBucketKeys prepares collecting the keys of buckets (hashing mode only),

@@ -452,7 +452,6 @@ type fieldLearner struct {
 	fields  []TableField
 	codecs  []*fieldCodec
 	tok     *tokenize.Tokenizer
-	buf     []byte
 	docs    int64
 	stats   []learnStat
 	// per record, before committing
