@@ -12,9 +12,9 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/corpus"
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
-	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
 	"github.com/bowline/bowline/tokenize"

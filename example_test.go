@@ -10,8 +10,8 @@ import (
 
 	"github.com/bowline/bowline"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
-	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
 	"github.com/bowline/bowline/tokenize"

@@ -13,10 +13,10 @@ import (
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/runners/prism"
 
 	"github.com/bowline/bowline/corpus"
-	"github.com/bowline/bowline/demo"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
-	"github.com/bowline/bowline/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
 	"github.com/bowline/bowline/tokenize"

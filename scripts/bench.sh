@@ -31,7 +31,7 @@ go build -o "$tmp/bowline" ./cmd/bowline
 go build -o "$tmp/segfloor" ./internal/tools/segfloor
 corpus=${1:-}
 if [ -z "$corpus" ] && [ $demo = 1 ]; then
-  go run ./demo/demotsv --docs 200000 2>/dev/null | tail -n +2 | cut -f5 >"$tmp/corpus.txt"
+  go run ./internal/demo/demotsv --docs 200000 2>/dev/null | tail -n +2 | cut -f5 >"$tmp/corpus.txt"
   corpus=$tmp/corpus.txt
 elif [ -z "$corpus" ]; then
   sh scripts/fetch-sotu.sh

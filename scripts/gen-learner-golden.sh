@@ -3,10 +3,10 @@
 # by bowline from the invented Pellwick demo corpus (and from the State of
 # the Union corpus when testdata/sotu/raw/sotu.jsonl is present), the models
 # that liblinear-train -s 0 fits on them and the held-out predictions of
-# liblinear-predict (Debian package liblinear-tools 2.3.0). Package learner
+# liblinear-predict (Debian package liblinear-tools 2.3.0). Package logreg
 # checks its accuracy and objective against these files.
 #
-# The work is done by the learner package's TestLiblinearLive, which encodes
+# The work is done by the logreg package's TestLiblinearLive, which encodes
 # the rows, runs the installed liblinear tools and, given -golden-out DIR,
 # writes the files into DIR.
 #
@@ -41,7 +41,7 @@ if [ $check = 1 ]; then
 fi
 mkdir -p "$out"
 cd "$root"
-go test ./learner -run '^TestLiblinearLive$' -count=1 -v -args -golden-out "$out" | grep -E 'accuracy|objective|PASS|FAIL|wrote' >&2
+go test ./internal/logreg -run '^TestLiblinearLive$' -count=1 -v -args -golden-out "$out" | grep -E 'accuracy|objective|PASS|FAIL|wrote' >&2
 
 if [ $check = 1 ]; then
 	status=0

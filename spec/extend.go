@@ -12,7 +12,7 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/bowline/bowline/atomicfile"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )

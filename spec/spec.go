@@ -18,7 +18,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"github.com/bowline/bowline/atomicfile"
+	"github.com/bowline/bowline/internal/atomicfile"
 )
 
 // SchemaVersion is the version of the spec file layout this build writes and

@@ -7,8 +7,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/bowline/bowline/demo"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"

@@ -51,7 +51,7 @@ import (
 	"time"
 
 	"github.com/bowline/bowline"
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
 )
 
 // Bounds of one run.

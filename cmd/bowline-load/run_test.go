@@ -14,10 +14,10 @@ import (
 
 	"github.com/bowline/bowline"
 	"github.com/bowline/bowline/corpus"
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/internal/serve"
 	"github.com/bowline/bowline/ngram"
-	"github.com/bowline/bowline/pipeline"
-	"github.com/bowline/bowline/serve"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
 	"github.com/bowline/bowline/vocab"

@@ -12,9 +12,9 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/bowline/bowline/atomicfile"
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
+	"github.com/bowline/bowline/internal/demo"
 )
 
 func runDemo(args []string, stdout, stderr io.Writer) error {

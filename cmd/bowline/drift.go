@@ -4,10 +4,10 @@ import (
 	"io"
 	"strings"
 
-	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
-	"github.com/bowline/bowline/drift"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
+	"github.com/bowline/bowline/internal/drift"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 )

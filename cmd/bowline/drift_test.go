@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
 )
 
 // driftFiles writes an invented demo corpus split into dir and learns a

@@ -6,10 +6,10 @@ import (
 	"io"
 	"strings"
 
-	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
-	"github.com/bowline/bowline/pipeline"
+	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 )

@@ -9,7 +9,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
 )
 
 // demoTable writes the invented demo corpus (with its table columns zone,

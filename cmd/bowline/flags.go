@@ -10,10 +10,10 @@ import (
 	"runtime"
 	"strings"
 
-	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
-	"github.com/bowline/bowline/pipeline"
+	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/spec"
 )
 

@@ -7,10 +7,10 @@ import (
 	"runtime/debug"
 	"strings"
 
-	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
-	"github.com/bowline/bowline/pipeline"
+	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"

@@ -19,10 +19,10 @@ import (
 	"sync/atomic"
 	"syscall"
 
-	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
-	"github.com/bowline/bowline/pipeline"
+	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
 	"github.com/bowline/bowline/vocab"

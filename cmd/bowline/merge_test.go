@@ -12,7 +12,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/spec"
 )
 

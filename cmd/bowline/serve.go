@@ -15,7 +15,7 @@ import (
 	"time"
 
 	"github.com/bowline/bowline/internal/cli"
-	"github.com/bowline/bowline/serve"
+	"github.com/bowline/bowline/internal/serve"
 )
 
 func init() {

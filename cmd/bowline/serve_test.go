@@ -16,7 +16,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/svmlight"
 )
 

@@ -7,12 +7,12 @@ import (
 	"strings"
 	"time"
 
-	"github.com/bowline/bowline/atomicfile"
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
+	"github.com/bowline/bowline/internal/sweep"
 	"github.com/bowline/bowline/spec"
-	"github.com/bowline/bowline/sweep"
 )
 
 func init() {

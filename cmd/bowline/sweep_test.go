@@ -9,9 +9,9 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/bowline/bowline/demo"
 	"github.com/bowline/bowline/internal/cli"
-	"github.com/bowline/bowline/sweep"
+	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/sweep"
 )
 
 // sweepCorpus writes the invented demo corpus's training and held-out

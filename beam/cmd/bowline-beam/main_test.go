@@ -10,7 +10,7 @@ import (
 	"sync"
 	"testing"
 
-	"github.com/bowline/bowline/demo"
+	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/spec"
 )
 
