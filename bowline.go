@@ -1,7 +1,7 @@
 // Package bowline is the library face of bowline: load a frozen spec and
 // encode documents into sparse rows, safely from many goroutines.
 //
-// A spec is written by "bowline learn" (or by spec.Learner and pipeline.Learn
+// A spec is written by "bowline learn" (or by learn.Learner and pipeline.Learn
 // in code). Load checks its schema version and fingerprint; the Encoder it
 // returns gives, for the same text, exactly the rows "bowline encode" writes
 // with the same spec, whatever the machine or the number of goroutines.
@@ -18,6 +18,8 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/spec"
 )
 
@@ -25,7 +27,7 @@ import (
 // use by many goroutines.
 type Encoder struct {
 	spec   *spec.Spec
-	enc    *spec.Encoder
+	enc    *encode.Encoder
 	fields []string
 	table  []string // table fields (categories, numbers, times)
 }
@@ -40,7 +42,7 @@ func Load(path string) (*Encoder, error) {
 	}
 	e, err := New(s)
 	if err != nil {
-		return nil, &spec.LoadError{File: path, Reason: "invalid", Err: err}
+		return nil, &spec.LoadError{File: path, Reason: spec.ErrInvalid, Err: err}
 	}
 	return e, nil
 }
@@ -54,7 +56,7 @@ func New(s *spec.Spec) (*Encoder, error) {
 	if s.Fingerprint == "" {
 		return nil, errors.New("bowline: spec is not sealed (no fingerprint)")
 	}
-	enc, err := spec.NewEncoder(s)
+	enc, err := encode.New(s)
 	if err != nil {
 		return nil, err
 	}
@@ -251,7 +253,7 @@ func (e *Encoder) EncodeTexts(id string, texts [][]byte) (Row, error) {
 	}
 	r, st, err := e.enc.EncodeFields(texts[:n], values)
 	if err != nil {
-		var fe *spec.FieldError
+		var fe *tablefield.ValueError
 		if errors.As(err, &fe) {
 			return Row{ID: id}, &DocumentError{ID: id, Field: fe.Field, Reason: fmt.Sprintf("%q: %s", fe.Value, fe.Reason)}
 		}

@@ -13,6 +13,8 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
@@ -22,13 +24,13 @@ import (
 	"github.com/bowline/bowline/weight"
 )
 
-func settings(t testing.TB, text []string, tf weight.TF, idf weight.IDF, norm weight.Norm) *spec.Settings {
+func settings(t testing.TB, text []string, tf weight.TF, idf weight.IDF, norm weight.Norm) *learn.Settings {
 	t.Helper()
 	words, err := ngram.ParseWords("1-1")
 	if err != nil {
 		t.Fatal(err)
 	}
-	return &spec.Settings{
+	return &learn.Settings{
 		Input:   spec.Input{Format: "tsv", Text: text},
 		Tokens:  tokenize.DefaultOptions(),
 		NGrams:  ngram.Config{Words: words},
@@ -38,9 +40,9 @@ func settings(t testing.TB, text []string, tf weight.TF, idf weight.IDF, norm we
 	}
 }
 
-func learn(t testing.TB, data string, st *spec.Settings) *spec.Spec {
+func learnSpec(t testing.TB, data string, st *learn.Settings) *spec.Spec {
 	t.Helper()
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -81,7 +83,7 @@ func TestEncodeCountsAndNorm(t *testing.T) {
 		{weight.NormL2, 2 / math.Sqrt(5), 1 / math.Sqrt(5)},
 		{weight.NormL1, 2.0 / 3, 1.0 / 3},
 	} {
-		e, err := New(learn(t, tiny, settings(t, []string{"text"}, weight.TFCount, weight.IDFNone, c.norm)))
+		e, err := New(learnSpec(t, tiny, settings(t, []string{"text"}, weight.TFCount, weight.IDFNone, c.norm)))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -103,11 +105,11 @@ func TestEncodeCountsAndNorm(t *testing.T) {
 }
 
 func TestDocumentErrors(t *testing.T) {
-	one, err := New(learn(t, tiny, settings(t, []string{"text"}, weight.TFCount, weight.IDFNone, weight.NormNone)))
+	one, err := New(learnSpec(t, tiny, settings(t, []string{"text"}, weight.TFCount, weight.IDFNone, weight.NormNone)))
 	if err != nil {
 		t.Fatal(err)
 	}
-	two, err := New(learn(t, "title\tbody\ndock\tbike\n", settings(t, []string{"title", "body"}, weight.TFCount, weight.IDFNone, weight.NormNone)))
+	two, err := New(learnSpec(t, "title\tbody\ndock\tbike\n", settings(t, []string{"title", "body"}, weight.TFCount, weight.IDFNone, weight.NormNone)))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -155,7 +157,7 @@ func TestDocumentErrors(t *testing.T) {
 }
 
 func TestLoad(t *testing.T) {
-	s := learn(t, tiny, settings(t, []string{"text"}, weight.TFCount, weight.IDFSmooth, weight.NormL2))
+	s := learnSpec(t, tiny, settings(t, []string{"text"}, weight.TFCount, weight.IDFSmooth, weight.NormL2))
 	dir := t.TempDir()
 	for _, name := range []string{"spec.json", "spec.json.gz"} {
 		p := filepath.Join(dir, name)
@@ -183,10 +185,10 @@ func TestLoad(t *testing.T) {
 	}
 	p := filepath.Join(dir, "tampered.json")
 	os.WriteFile(p, tampered, 0o644)
-	for path, reason := range map[string]string{p: "fingerprint mismatch", filepath.Join(dir, "none.json"): "unreadable"} {
+	for path, reason := range map[string]error{p: spec.ErrFingerprint, filepath.Join(dir, "none.json"): spec.ErrUnreadable} {
 		_, err := Load(path)
 		var le *spec.LoadError
-		if !errors.As(err, &le) || le.Reason != reason {
+		if !errors.As(err, &le) || le.Reason != reason || !errors.Is(err, reason) {
 			t.Errorf("%s: %v, want a *spec.LoadError %q", path, err, reason)
 		}
 	}
@@ -207,8 +209,8 @@ func TestParityWithEncode(t *testing.T) {
 	}
 	st := settings(t, []string{"text"}, weight.TFLog, weight.IDFSmooth, weight.NormL2)
 	st.Input.ID = "id"
-	s := learn(t, all.String(), st)
-	senc, err := spec.NewEncoder(s)
+	s := learnSpec(t, all.String(), st)
+	senc, err := encode.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -245,7 +247,7 @@ func TestConcurrentEncode(t *testing.T) {
 	var all bytes.Buffer
 	demo.WriteTSV(&all, demo.Options{Docs: 200, Seed: 5})
 	st := settings(t, []string{"text"}, weight.TFCount, weight.IDFSmooth, weight.NormL2)
-	e, err := New(learn(t, all.String(), st))
+	e, err := New(learnSpec(t, all.String(), st))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -280,7 +282,7 @@ func TestConcurrentEncode(t *testing.T) {
 func BenchmarkEncode(b *testing.B) {
 	var all bytes.Buffer
 	demo.WriteTSV(&all, demo.Options{Docs: 500, Seed: 1})
-	e, err := New(learn(b, all.String(), settings(b, []string{"text"}, weight.TFCount, weight.IDFSmooth, weight.NormL2)))
+	e, err := New(learnSpec(b, all.String(), settings(b, []string{"text"}, weight.TFCount, weight.IDFSmooth, weight.NormL2)))
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -10,6 +10,7 @@ import (
 
 	"github.com/bowline/bowline"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
@@ -39,7 +40,7 @@ func Example() {
 		log.Fatal(err)
 	}
 	words, _ := ngram.ParseWords("1-1")
-	settings := &spec.Settings{
+	settings := &learn.Settings{
 		Input:         spec.Input{Format: "tsv", Text: []string{"text"}, Label: "team"},
 		Tokens:        tokenize.DefaultOptions(),
 		StopSources:   []string{"en"},
@@ -52,7 +53,7 @@ func Example() {
 		IDF:           weight.IDFNone,
 		Norm:          weight.NormNone,
 	}
-	learner, err := spec.NewLearner(settings)
+	learner, err := learn.New(settings)
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -100,7 +101,7 @@ func Example() {
 // A spec learned on several text fields takes them by name.
 func ExampleEncoder_Encode_fields() {
 	words, _ := ngram.ParseWords("1-1")
-	learner, err := spec.NewLearner(&spec.Settings{
+	learner, err := learn.New(&learn.Settings{
 		Input:   spec.Input{Format: "tsv", Text: []string{"title", "body"}},
 		Tokens:  tokenize.DefaultOptions(),
 		NGrams:  ngram.Config{Words: words},

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"testing"
 
+	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
@@ -15,12 +17,12 @@ import (
 // beside the text.
 func tableEncoder(t *testing.T) *Encoder {
 	t.Helper()
-	zone, _ := spec.ParseCategory("zone")
-	age, _ := spec.ParseNumber("age:standard", nil)
-	st := &spec.Settings{Input: spec.Input{Format: "tsv", Text: []string{"text"}}, Tokens: tokenize.DefaultOptions(),
+	zone, _ := tablefield.ParseCategory("zone")
+	age, _ := tablefield.ParseNumber("age:standard", nil)
+	st := &learn.Settings{Input: spec.Input{Format: "tsv", Text: []string{"text"}}, Tokens: tokenize.DefaultOptions(),
 		NGrams: ngram.Config{Words: ngram.Range{Min: 1, Max: 1}}, Mode: spec.ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(),
 		TF: weight.TFCount, Norm: weight.NormNone, Fields: []spec.TableField{zone, age}}
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -31,7 +33,7 @@ func tableEncoder(t *testing.T) *Encoder {
 		}
 		w.Observe([][]byte{[]byte(r[0])})
 	}
-	s, _, err := l.Finish(w, spec.LabelsFrom(nil, false))
+	s, _, err := l.Finish(w, learn.LabelsFrom(nil, false))
 	if err != nil {
 		t.Fatal(err)
 	}

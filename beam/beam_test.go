@@ -15,6 +15,8 @@ import (
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
@@ -67,14 +69,14 @@ func demoFiles(t *testing.T, docs int) (whole string, parts []string) {
 	return whole, parts
 }
 
-func vocabSettings(t *testing.T, label string) *spec.Settings {
+func vocabSettings(t *testing.T, label string) *learn.Settings {
 	t.Helper()
 	words, err := stopwords.Builtin("en")
 	if err != nil {
 		t.Fatal(err)
 	}
 	w, _ := ngram.ParseWords("1-2")
-	return &spec.Settings{
+	return &learn.Settings{
 		Input:         spec.Input{Format: "tsv", Text: []string{"text"}, Label: label},
 		Tokens:        tokenize.DefaultOptions(),
 		StopSources:   []string{"en"},
@@ -89,7 +91,7 @@ func vocabSettings(t *testing.T, label string) *spec.Settings {
 	}
 }
 
-func hashSettings(t *testing.T) *spec.Settings {
+func hashSettings(t *testing.T) *learn.Settings {
 	t.Helper()
 	width, err := hashing.ParseWidth("2^12")
 	if err != nil {
@@ -97,7 +99,7 @@ func hashSettings(t *testing.T) *spec.Settings {
 	}
 	w, _ := ngram.ParseWords("1-1")
 	c, _ := ngram.ParseChars("3-4")
-	return &spec.Settings{
+	return &learn.Settings{
 		Input:         spec.Input{Format: "tsv", Text: []string{"text"}, Label: "sentiment"},
 		Tokens:        tokenize.DefaultOptions(),
 		KeepNegations: true,
@@ -110,19 +112,19 @@ func hashSettings(t *testing.T) *spec.Settings {
 	}
 }
 
-func corpusOptions(st *spec.Settings) corpus.Options {
+func corpusOptions(st *learn.Settings) corpus.Options {
 	return corpus.Options{Format: corpus.TSV, Text: st.Input.Text, Label: st.Input.Label, ID: st.Input.ID}
 }
 
 // learnOne is the single-machine learn over one file.
-func learnOne(t *testing.T, path string, st *spec.Settings) *spec.Spec {
+func learnOne(t *testing.T, path string, st *learn.Settings) *spec.Spec {
 	t.Helper()
 	r, err := corpus.Open(path, corpusOptions(st))
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer r.Close()
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -141,7 +143,7 @@ func run(t *testing.T, p *beam.Pipeline) {
 }
 
 // learnBeam runs the Beam learn pipeline on prism.
-func learnBeam(t *testing.T, files []string, st *spec.Settings) *spec.Spec {
+func learnBeam(t *testing.T, files []string, st *learn.Settings) *spec.Spec {
 	t.Helper()
 	out := filepath.Join(t.TempDir(), "beam-spec.json")
 	p, s := beam.NewPipelineWithRoot()
@@ -223,7 +225,7 @@ func TestEncodeShardsEqualRows(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer r.Close()
-	enc, err := spec.NewEncoder(sp)
+	enc, err := encode.New(sp)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -14,6 +14,7 @@ import (
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/register"
 
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
 	"github.com/bowline/bowline/weight"
@@ -100,8 +101,8 @@ type encodeFn struct {
 	Options EncodeOptions
 	Files   []string
 
-	enc *spec.Encoder
-	w   *spec.Worker
+	enc *encode.Encoder
+	w   *encode.Worker
 	row weight.Row
 }
 
@@ -111,7 +112,7 @@ func (f *encodeFn) ProcessElement(ctx context.Context, d Doc, specData []byte, e
 		if err != nil {
 			return err
 		}
-		if f.enc, err = spec.NewEncoder(sp); err != nil {
+		if f.enc, err = encode.New(sp); err != nil {
 			return err
 		}
 		f.w = f.enc.NewWorker(false)

@@ -12,6 +12,7 @@ import (
 
 	bowlinebeam "github.com/bowline/bowline/beam"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
@@ -28,7 +29,7 @@ func ExampleLearn() {
 	os.WriteFile(notes, []byte("dock full again\nbike seat loose\ndock app froze, bike fine\n"), 0o644)
 
 	words, _ := ngram.ParseWords("1-1")
-	st := &spec.Settings{
+	st := &learn.Settings{
 		Input:  spec.Input{Format: "lines", Text: []string{"line"}},
 		Tokens: tokenize.DefaultOptions(),
 		NGrams: ngram.Config{Words: words},

@@ -21,6 +21,9 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
@@ -70,14 +73,14 @@ func init() {
 //
 // in.Format, in.Text, in.Label, in.ID and in.NoHeader must agree with
 // st.Input, as they do when both come from the same command line.
-func Learn(s beam.Scope, files []string, in corpus.Options, st *spec.Settings, out string) (beam.PCollection, error) {
+func Learn(s beam.Scope, files []string, in corpus.Options, st *learn.Settings, out string) (beam.PCollection, error) {
 	if len(files) == 0 {
 		return beam.PCollection{}, errors.New("no corpus files to learn from")
 	}
 	if out == "" {
 		return beam.PCollection{}, errors.New("no spec file to write")
 	}
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		return beam.PCollection{}, err
 	}
@@ -93,7 +96,7 @@ func Learn(s beam.Scope, files []string, in corpus.Options, st *spec.Settings, o
 	fin := beam.Impulse(s)
 	if content.Mode == spec.ModeVocabulary {
 		// The settings a shard is counted under: no learned numbers,
-		// cutoffs at their defaults (see spec.Learner.Shard).
+		// cutoffs at their defaults (see learn.Learner.Shard).
 		sh, err := l.Shard(l.NewWorker(), spec.Labels{})
 		if err != nil {
 			return beam.PCollection{}, err
@@ -115,12 +118,12 @@ func Learn(s beam.Scope, files []string, in corpus.Options, st *spec.Settings, o
 }
 
 // analyzer rebuilds the analysis chain from spec content sent as JSON.
-func analyzer(settings []byte) (*spec.Content, *spec.Analyzer, error) {
+func analyzer(settings []byte) (*spec.Content, *analysis.Analyzer, error) {
 	var c spec.Content
 	if err := json.Unmarshal(settings, &c); err != nil {
 		return nil, nil, fmt.Errorf("bowline settings: %v", err)
 	}
-	a, err := c.Analysis()
+	a, err := analysis.New(&c)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -138,7 +141,7 @@ var maxBundleKeys = 1 << 20
 type keysFn struct {
 	Settings []byte // spec content without learned numbers, as JSON
 
-	z      *spec.Analyzer
+	z      *analysis.Analyzer
 	counts *vocab.Counts
 }
 
@@ -153,7 +156,7 @@ func (f *keysFn) StartBundle(ctx context.Context, emit func(string, KeyCount)) {
 }
 
 func (f *keysFn) ProcessElement(ctx context.Context, d Doc, emit func(string, KeyCount)) error {
-	f.z.Analyze(d.Text, f.counts.Add)
+	f.z.Analyze(d.Text, func(key []byte, o ngram.Order) { f.counts.Add(key, int(o)) })
 	f.counts.EndDoc()
 	if f.counts.Len() >= maxBundleKeys {
 		f.flush(emit)
@@ -179,7 +182,7 @@ type bucketsFn struct {
 	Settings []byte
 	Off      bool // emit nothing (no idf to learn)
 
-	z       *spec.Analyzer
+	z       *analysis.Analyzer
 	h       *hashing.Hasher
 	width   uint64
 	touched map[uint64]struct{}
@@ -203,7 +206,7 @@ func (f *bucketsFn) ProcessElement(ctx context.Context, d Doc, emit func(uint64,
 	if f.Off {
 		return nil
 	}
-	f.z.Analyze(d.Text, func(key []byte, code int) {
+	f.z.Analyze(d.Text, func(key []byte, _ ngram.Order) {
 		f.touched[hashing.BucketOf(f.h.Sum(key), f.width)] = struct{}{}
 	})
 	for b := range f.touched {
@@ -255,7 +258,7 @@ func labelsOf(hasLabel bool, iter func(*string, *int) bool) spec.Labels {
 		values = append(values, k)
 	}
 	sort.Strings(values)
-	lab := spec.LabelsFrom(values, hasLabel)
+	lab := learn.LabelsFrom(values, hasLabel)
 	if hasLabel {
 		lab.Values = values
 		for _, k := range values {
@@ -267,10 +270,10 @@ func labelsOf(hasLabel bool, iter func(*string, *int) bool) spec.Labels {
 
 // vocabSpecFn is the single-worker step of a vocabulary-mode learn: it
 // gathers the combined key counts into a count shard (package vocab's
-// documented format), applies the cutoffs with spec.Shard.Learn and
+// documented format), applies the cutoffs with learn.Shard.Learn and
 // writes the spec.
 type vocabSpecFn struct {
-	Settings []byte // shard settings (spec.Shard.Settings) as JSON
+	Settings []byte // shard settings (learn.Shard.Settings) as JSON
 	Cutoffs  vocab.Cutoffs
 	Out      string
 }
@@ -334,7 +337,7 @@ func (f *vocabSpecFn) ProcessElement(ctx context.Context, _ []byte, ndocs int, l
 	if _, err := vocab.ReadShard(&buf, "merged counts", counts); err != nil {
 		return err
 	}
-	sh := &spec.Shard{Settings: c, Counts: counts, Labels: spec.Labels{Values: lab.Values, Counts: lab.Counts}}
+	sh := &learn.Shard{Settings: c, Counts: counts, Labels: spec.Labels{Values: lab.Values, Counts: lab.Counts}}
 	sp, _, err := sh.Learn(f.Cutoffs)
 	if err != nil {
 		return err
@@ -348,7 +351,7 @@ func (f *vocabSpecFn) ProcessElement(ctx context.Context, _ []byte, ndocs int, l
 
 // hashSpecFn is the single-worker step of a hashing-mode learn: the
 // document count, the labels and, with idf, each bucket's documents make
-// the spec, as spec.Learner.Finish makes it.
+// the spec, as learn.Learner.Finish makes it.
 type hashSpecFn struct {
 	Settings []byte // spec content without learned numbers, as JSON
 	Out      string
@@ -364,10 +367,7 @@ func (f *hashSpecFn) ProcessElement(ctx context.Context, _ []byte, ndocs int, la
 	}
 	c.Docs = int64(ndocs)
 	c.Labels = labelsOf(c.Input.Label != "", labels)
-	idf, err := weight.ParseIDF(c.Weights.IDF)
-	if err != nil {
-		return err
-	}
+	idf := c.Weights.IDF
 	if idf != weight.IDFNone {
 		df := map[uint64]int64{}
 		var b uint64

@@ -18,8 +18,8 @@ func tokens(s string) [][]byte {
 func ExampleBuilder_Emit() {
 	words, _ := ngram.ParseWords("1-2")
 	b := ngram.NewBuilder(ngram.Config{Words: words})
-	b.Emit(nil, tokens("not good at all"), func(key []byte, kind ngram.Kind, order int) {
-		fmt.Printf("%s %q\n", ngram.OrderLabel(kind, order), key)
+	b.Emit(nil, tokens("not good at all"), func(key []byte, o ngram.Order) {
+		fmt.Printf("%s %q\n", o, key)
 	})
 	// Output:
 	// w1 "not"
@@ -34,8 +34,8 @@ func ExampleBuilder_Emit() {
 func ExampleBuilder_Emit_chars() {
 	chars, _ := ngram.ParseChars("3")
 	b := ngram.NewBuilder(ngram.Config{Chars: chars})
-	b.Emit([]byte("title|"), tokens("café"), func(key []byte, kind ngram.Kind, order int) {
-		fmt.Printf("%s %s\n", ngram.OrderLabel(kind, order), key)
+	b.Emit([]byte("title|"), tokens("café"), func(key []byte, o ngram.Order) {
+		fmt.Printf("%s %s\n", o, key)
 	})
 	// Output:
 	// c3 title|#<ca

@@ -35,14 +35,6 @@ const CharPrefix = '#'
 // from "ca" inside a word.
 const BoundaryStart, BoundaryEnd = '<', '>'
 
-// OrderLabel names an n-gram order in reports: "w1", "w2", "c3", ...
-func OrderLabel(kind Kind, order int) string {
-	if kind == Char {
-		return "c" + strconv.Itoa(order)
-	}
-	return "w" + strconv.Itoa(order)
-}
-
 // A Builder forms the n-gram keys of documents. It keeps scratch space
 // between calls, so it is not safe for concurrent use: use one per
 // goroutine.
@@ -84,10 +76,10 @@ func NewBuilder(c Config) *Builder {
 //     n-grams: with order Chars.Min if K < Chars.Min, and not again for
 //     larger n when it was already emitted as the K-gram.
 //
-// order is n (the number of tokens or characters), kind is Word or Char.
+// o is the key's Order: its kind and n (the number of tokens or characters).
 // Tokens are expected to be valid UTF-8; an invalid byte counts as one
 // character.
-func (b *Builder) Emit(prefix []byte, tokens [][]byte, fn func(key []byte, kind Kind, order int)) {
+func (b *Builder) Emit(prefix []byte, tokens [][]byte, fn func(key []byte, o Order)) {
 	b.EmitFrom(prefix, tokens, 0, fn)
 }
 
@@ -106,11 +98,11 @@ func (b *Builder) Context() int {
 // tokens[from:], so that a stream cut into chunks, each passed with the
 // previous Context() tokens in front, yields exactly the keys of one Emit
 // over the whole stream (in another order).
-func (b *Builder) EmitFrom(prefix []byte, tokens [][]byte, from int, fn func(key []byte, kind Kind, order int)) {
+func (b *Builder) EmitFrom(prefix []byte, tokens [][]byte, from int, fn func(key []byte, o Order)) {
 	if w := b.c.Words; w.On() {
 		for n := w.Min; n <= w.Max && n <= len(tokens); n++ {
 			for i := max(0, from-n+1); i+n <= len(tokens); i++ {
-				fn(WordKey(&b.key, prefix, tokens[i:i+n]), Word, n)
+				fn(WordKey(&b.key, prefix, tokens[i:i+n]), Order(n))
 			}
 		}
 	}
@@ -120,7 +112,7 @@ func (b *Builder) EmitFrom(prefix []byte, tokens [][]byte, from int, fn func(key
 // EmitCharsFrom emits only the character n-grams of EmitFrom: those of
 // tokens[from:], in the same order. With a caller that forms word n-grams
 // itself it lets both kinds come out as EmitFrom gives them.
-func (b *Builder) EmitCharsFrom(prefix []byte, tokens [][]byte, from int, fn func(key []byte, kind Kind, order int)) {
+func (b *Builder) EmitCharsFrom(prefix []byte, tokens [][]byte, from int, fn func(key []byte, o Order)) {
 	if c := b.c.Chars; c.On() {
 		for _, tok := range tokens[from:] {
 			b.mark(tok)
@@ -196,10 +188,10 @@ func (b *Builder) mark(tok []byte) {
 	b.marked, b.starts = m, append(s, len(m))
 }
 
-func (b *Builder) emitChar(prefix, gram []byte, order int, fn func([]byte, Kind, int)) {
+func (b *Builder) emitChar(prefix, gram []byte, n int, fn func([]byte, Order)) {
 	k := append(b.key[:0], prefix...)
 	k = append(k, CharPrefix)
 	k = append(k, gram...)
 	b.key = k
-	fn(k, Char, order)
+	fn(k, OrderOf(Char, n))
 }

@@ -20,7 +20,7 @@ type emitted struct {
 	order int
 }
 
-func (e emitted) String() string { return fmt.Sprintf("%s:%q", OrderLabel(e.kind, e.order), e.key) }
+func (e emitted) String() string { return fmt.Sprintf("%s:%q", OrderOf(e.kind, e.order), e.key) }
 
 func collect(c Config, prefix string, text string) []emitted {
 	var toks [][]byte
@@ -28,8 +28,8 @@ func collect(c Config, prefix string, text string) []emitted {
 		toks = append(toks, []byte(f))
 	}
 	var out []emitted
-	NewBuilder(c).Emit([]byte(prefix), toks, func(key []byte, kind Kind, order int) {
-		out = append(out, emitted{string(key), kind, order})
+	NewBuilder(c).Emit([]byte(prefix), toks, func(key []byte, o Order) {
+		out = append(out, emitted{string(key), o.Kind(), o.Len()})
 	})
 	return out
 }
@@ -200,14 +200,17 @@ func TestPrefix(t *testing.T) {
 	}
 }
 
-func TestOrderLabel(t *testing.T) {
+func TestOrderString(t *testing.T) {
 	for _, tc := range []struct {
 		kind  Kind
 		order int
 		want  string
 	}{{Word, 1, "w1"}, {Word, 2, "w2"}, {Char, 3, "c3"}, {Char, 12, "c12"}} {
-		if got := OrderLabel(tc.kind, tc.order); got != tc.want {
-			t.Errorf("OrderLabel(%v, %d) = %q, want %q", tc.kind, tc.order, got, tc.want)
+		if got := OrderOf(tc.kind, tc.order).String(); got != tc.want {
+			t.Errorf("OrderOf(%v, %d) = %q, want %q", tc.kind, tc.order, got, tc.want)
+		}
+		if o := OrderOf(tc.kind, tc.order); o.Kind() != tc.kind || o.Len() != tc.order {
+			t.Errorf("OrderOf(%v, %d): Kind %v, Len %d", tc.kind, tc.order, o.Kind(), o.Len())
 		}
 	}
 	if Word.String() != "word" || Char.String() != "char" {
@@ -241,7 +244,7 @@ func TestEmitAllocs(t *testing.T) {
 	b := NewBuilder(Config{Words: Range{1, 3}, Chars: Range{2, 5}})
 	prefix := []byte("body|")
 	count := 0
-	fn := func(key []byte, kind Kind, order int) { count += len(key) }
+	fn := func(key []byte, o Order) { count += len(key) }
 	b.Emit(prefix, toks, fn) // warm-up grows the scratch space
 	if n := testing.AllocsPerRun(50, func() { b.Emit(prefix, toks, fn) }); n != 0 {
 		t.Errorf("Emit: %v allocations per document, want 0", n)
@@ -260,7 +263,7 @@ func BenchmarkEmit(b *testing.B) {
 		b.Run("words="+c.Words.String()+",chars="+c.Chars.String(), func(b *testing.B) {
 			bld := NewBuilder(c)
 			nkeys := 0
-			fn := func(key []byte, kind Kind, order int) { nkeys++ }
+			fn := func(key []byte, o Order) { nkeys++ }
 			b.SetBytes(int64(size))
 			for b.Loop() {
 				bld.Emit(nil, toks, fn)

@@ -1,27 +1,44 @@
 package spec
 
 import (
-	"bytes"
-	"errors"
 	"fmt"
 	"math"
 	"slices"
-	"sort"
-	"strconv"
-	"strings"
 	"time"
-	_ "time/tzdata" // --time-zone works on machines without a zoneinfo database
-
-	"github.com/bowline/bowline/tokenize"
-	"github.com/cespare/xxhash/v2"
+	_ "time/tzdata" // time zones load on machines without a zoneinfo database
 )
+
+// FieldKind is the kind of a table field. In a spec file it is the word
+// "category", "number" or "time".
+type FieldKind string
 
 // Table field kinds.
 const (
-	KindCategory = "category"
-	KindNumber   = "number"
-	KindTime     = "time"
+	KindCategory FieldKind = "category"
+	KindNumber   FieldKind = "number"
+	KindTime     FieldKind = "time"
 )
+
+// MarshalText returns the kind's word; another kind (but unset, "") is an
+// error.
+func (k FieldKind) MarshalText() ([]byte, error) {
+	switch k {
+	case KindCategory, KindNumber, KindTime, "":
+		return []byte(k), nil
+	}
+	return nil, fmt.Errorf("unknown field kind %q", string(k))
+}
+
+// UnmarshalText reads "category", "number" or "time" (or "", unset,
+// which Validate refuses).
+func (k *FieldKind) UnmarshalText(b []byte) error {
+	v := FieldKind(b)
+	if _, err := v.MarshalText(); err != nil {
+		return err
+	}
+	*k = v
+	return nil
+}
 
 // Reserved level and feature names of table fields.
 const (
@@ -37,10 +54,6 @@ const (
 // column order, after the field name and a colon ("created:hour_sin").
 var TimeFeatures = [6]string{"hour_sin", "hour_cos", "dow_sin", "dow_cos", "doy_sin", "doy_cos"}
 
-// MaxLevels bounds the distinct levels one category field may have in a
-// training corpus.
-const MaxLevels = 100000
-
 // TableField is a field read beside the text: a category, a number or a
 // timestamp, with its settings and the numbers frozen at learn time.
 // Exactly the member named by Kind is set.
@@ -48,7 +61,7 @@ type TableField struct {
 	// Name is the corpus field (header name, column number or JSON key).
 	Name string `json:"name"`
 	// Kind is KindCategory, KindNumber or KindTime.
-	Kind     string    `json:"kind"`
+	Kind     FieldKind `json:"kind"`
 	Category *Category `json:"category,omitempty"`
 	Number   *Number   `json:"number,omitempty"`
 	Time     *Time     `json:"time,omitempty"`
@@ -112,56 +125,6 @@ type Time struct {
 	MissingDocs int64 `json:"missing_docs"`
 }
 
-// ParseCategory returns the settings of a category field (--category NAME).
-func ParseCategory(arg string) (TableField, error) {
-	if arg == "" {
-		return TableField{}, errors.New("empty field name")
-	}
-	return TableField{Name: arg, Kind: KindCategory, Category: &Category{}}, nil
-}
-
-// ParseNumber returns the settings of a number field from
-// "NAME[:log|:standard|:log,standard]", with the missing-value sentinels.
-func ParseNumber(arg string, sentinels []string) (TableField, error) {
-	name, tr, _ := strings.Cut(arg, ":")
-	if name == "" {
-		return TableField{}, fmt.Errorf("%q: empty field name", arg)
-	}
-	n := &Number{Sentinels: append([]string(nil), sentinels...)}
-	if tr != "" {
-		for _, t := range strings.Split(tr, ",") {
-			switch t {
-			case "log":
-				n.Log = true
-			case "standard":
-				n.Standard = true
-			default:
-				return TableField{}, fmt.Errorf("%q: unknown transform %q (want log, standard or log,standard)", arg, t)
-			}
-		}
-	}
-	return TableField{Name: name, Kind: KindNumber, Number: n}, nil
-}
-
-// ParseTime returns the settings of a time field from "NAME[:LAYOUT]"
-// (RFC 3339 when no layout is given) read in the IANA zone.
-func ParseTime(arg, zone string) (TableField, error) {
-	name, layout, _ := strings.Cut(arg, ":")
-	if name == "" {
-		return TableField{}, fmt.Errorf("%q: empty field name", arg)
-	}
-	if layout == "" {
-		layout = time.RFC3339
-	}
-	if zone == "" {
-		zone = "UTC"
-	}
-	if _, err := time.LoadLocation(zone); err != nil {
-		return TableField{}, fmt.Errorf("time zone %q: %v", zone, err)
-	}
-	return TableField{Name: name, Kind: KindTime, Time: &Time{Layout: layout, Zone: zone}}, nil
-}
-
 // Columns is the number of columns the field takes in vocabulary mode.
 func (f *TableField) Columns() int {
 	switch f.Kind {
@@ -211,17 +174,8 @@ func (c *Content) FieldColumns() []FieldColumn {
 	return out
 }
 
-// fieldColumns is the number of table-field columns in vocabulary mode.
-func (c *Content) fieldColumns() int {
-	n := 0
-	for i := range c.Fields {
-		n += c.Fields[i].Columns()
-	}
-	return n
-}
-
-// validateFields checks the table fields of c.
-func (c *Content) validateFields() error {
+// ValidateFields checks the table fields of c.
+func (c *Content) ValidateFields() error {
 	seen := map[string]bool{}
 	for i := range c.Fields {
 		f := &c.Fields[i]
@@ -297,333 +251,8 @@ func (c *Content) validateFields() error {
 	return nil
 }
 
-// A FieldError is a table-field value that cannot be read: not a number,
-// a negative number under log, or not a time in the field's layout.
-type FieldError struct {
-	// Field is the field's name.
-	Field string
-	// Value is the value as read.
-	Value string
-	// Reason says what is wrong.
-	Reason string
-}
-
-func (e *FieldError) Error() string {
-	return fmt.Sprintf("field %q: %s: %s", e.Field, strconv.Quote(e.Value), e.Reason)
-}
-
-// fieldCodec reads the values of one table field.
-type fieldCodec struct {
-	f         *TableField
-	sentinels [][]byte
-	sentNums  []float64
-	loc       *time.Location
-	levels    map[string]int // category level → index among its columns
-	base      int            // first column (vocabulary mode)
-	// hashing mode: fixed keys, hashed once
-	keySums []uint64
-}
-
-func newFieldCodec(f *TableField) (*fieldCodec, error) {
-	fc := &fieldCodec{f: f}
-	switch f.Kind {
-	case KindNumber:
-		for _, s := range f.Number.Sentinels {
-			fc.sentinels = append(fc.sentinels, []byte(s))
-			if x, err := strconv.ParseFloat(strings.TrimSpace(s), 64); err == nil {
-				fc.sentNums = append(fc.sentNums, x)
-			}
-		}
-	case KindTime:
-		loc, err := time.LoadLocation(f.Time.Zone)
-		if err != nil {
-			return nil, err
-		}
-		fc.loc = loc
-	case KindCategory:
-		fc.levels = make(map[string]int, len(f.Category.Levels))
-		for i, l := range f.Category.Levels {
-			fc.levels[l] = i
-		}
-	default:
-		return nil, fmt.Errorf("unknown field kind %q", f.Kind)
-	}
-	return fc, nil
-}
-
-// number reads a number value: missing, or the value as read (raw) and
-// after the log transform (x).
-func (fc *fieldCodec) number(v []byte) (raw, x float64, missing bool, err error) {
-	v = bytes.TrimSpace(v)
-	if len(v) == 0 {
-		return 0, 0, true, nil
-	}
-	for _, s := range fc.sentinels {
-		if bytes.Equal(v, s) {
-			return 0, 0, true, nil
-		}
-	}
-	raw, perr := strconv.ParseFloat(string(v), 64)
-	if perr != nil || math.IsNaN(raw) || math.IsInf(raw, 0) {
-		return 0, 0, false, &FieldError{Field: fc.f.Name, Value: string(v), Reason: "not a number (and not a --missing-value sentinel)"}
-	}
-	for _, s := range fc.sentNums {
-		if raw == s {
-			return 0, 0, true, nil
-		}
-	}
-	x = raw
-	if fc.f.Number.Log {
-		if raw < 0 {
-			return 0, 0, false, &FieldError{Field: fc.f.Name, Value: string(v), Reason: "negative; log (ln(1+x)) takes values >= 0"}
-		}
-		x = math.Log1p(raw)
-	}
-	return raw, x, false, nil
-}
-
-// when reads a time value in the field's zone.
-func (fc *fieldCodec) when(v []byte) (t time.Time, missing bool, err error) {
-	v = bytes.TrimSpace(v)
-	if len(v) == 0 {
-		return t, true, nil
-	}
-	t, perr := time.ParseInLocation(fc.f.Time.Layout, string(v), fc.loc)
-	if perr != nil {
-		return t, false, &FieldError{Field: fc.f.Name, Value: string(v), Reason: "not a time in the layout " + strconv.Quote(fc.f.Time.Layout)}
-	}
-	return t.In(fc.loc), false, nil
-}
-
-// level normalizes a category value with tok into buf; an empty result is
-// a missing value.
-func level(tok *tokenize.Tokenizer, buf, v []byte) []byte {
-	v = bytes.TrimSpace(v)
-	if len(v) == 0 {
-		return buf[:0]
-	}
-	return tok.AppendNormalized(buf[:0], v)
-}
-
-// Category classes of a value.
-const (
-	classLevel = iota
-	classOther
-	classMissing
-	classUnseen
-)
-
-// classify places a normalized level (vocabulary mode).
-func (fc *fieldCodec) classify(l []byte) (class, index int) {
-	if len(l) == 0 {
-		return classMissing, 0
-	}
-	if i, ok := fc.levels[string(l)]; ok {
-		return classLevel, i
-	}
-	if _, ok := slices.BinarySearch(fc.f.Category.OtherHashes, xxhash.Sum64(l)); ok {
-		return classOther, 0
-	}
-	return classUnseen, 0
-}
-
-// Periodic returns the six periodic features of t, in the order of
-// TimeFeatures: with h = hour + minute/60 + second/3600, d the day of the
-// week with Monday = 0, y the day of the year counted from 0 and n the
-// number of days in t's year (365 or 366), the angles are 2π·h/24, 2π·d/7
-// and 2π·y/n, each giving its sine and cosine. t is read in its own
-// location.
-func Periodic(t time.Time) [6]float64 {
-	h := float64(t.Hour()) + float64(t.Minute())/60 + float64(t.Second())/3600
-	d := float64((int(t.Weekday()) + 6) % 7)
-	days := 365.0
-	if y := t.Year(); y%4 == 0 && (y%100 != 0 || y%400 == 0) {
-		days = 366
-	}
-	yd := float64(t.YearDay() - 1)
-	a, b, c := 2*math.Pi*h/24, 2*math.Pi*d/7, 2*math.Pi*yd/days
-	return [6]float64{math.Sin(a), math.Cos(a), math.Sin(b), math.Cos(b), math.Sin(c), math.Cos(c)}
-}
-
-// fieldLearner gathers the training statistics of the table fields, one
-// record at a time, in input order.
-type fieldLearner struct {
-	hashing bool // levels are not counted in hashing mode
-	fields  []TableField
-	codecs  []*fieldCodec
-	tok     *tokenize.Tokenizer
-	docs    int64
-	stats   []learnStat
-	// per record, before committing
-	raws, xs []float64
-	times    []time.Time
-	miss     []bool
-	lv       [][]byte
-}
-
-type learnStat struct {
-	levels  map[string]int64
-	n       int64
-	missing int64
-	mean    float64
-	m2      float64
-	min     float64
-	max     float64
-	first   time.Time
-	last    time.Time
-}
-
-func newFieldLearner(fields []TableField, mode string, tok tokenize.Options) (*fieldLearner, error) {
-	fl := &fieldLearner{fields: fields, stats: make([]learnStat, len(fields)), hashing: mode == ModeHashing}
-	for i := range fields {
-		fc, err := newFieldCodec(&fields[i])
-		if err != nil {
-			return nil, err
-		}
-		fl.codecs = append(fl.codecs, fc)
-		if fields[i].Kind == KindCategory {
-			fl.stats[i].levels = map[string]int64{}
-			if fl.tok == nil {
-				if fl.tok, err = tokenize.New(tok); err != nil {
-					return nil, err
-				}
-			}
-		}
-	}
-	n := len(fields)
-	fl.raws, fl.xs, fl.miss, fl.lv = make([]float64, n), make([]float64, n), make([]bool, n), make([][]byte, n)
-	fl.times = make([]time.Time, n)
-	return fl, nil
-}
-
-// observe reads one record's values; nothing is counted when a value is
-// bad.
-func (fl *fieldLearner) observe(values [][]byte) error {
-	if len(values) != len(fl.fields) && values != nil {
-		return fmt.Errorf("%d table field values for %d fields", len(values), len(fl.fields))
-	}
-	val := func(i int) []byte {
-		if values == nil {
-			return nil
-		}
-		return values[i]
-	}
-	for i, fc := range fl.codecs {
-		var err error
-		switch fc.f.Kind {
-		case KindNumber:
-			fl.raws[i], fl.xs[i], fl.miss[i], err = fc.number(val(i))
-		case KindTime:
-			fl.times[i], fl.miss[i], err = fc.when(val(i))
-		case KindCategory:
-			fl.lv[i] = level(fl.tok, fl.lv[i], val(i))
-			fl.miss[i] = len(fl.lv[i]) == 0
-			st := &fl.stats[i]
-			if !fl.miss[i] && !fl.hashing {
-				if _, ok := st.levels[string(fl.lv[i])]; !ok && len(st.levels) >= MaxLevels {
-					return fmt.Errorf("field %q: more than %d distinct levels; is it really a category?", fc.f.Name, MaxLevels)
-				}
-			}
-		}
-		if err != nil {
-			return err
-		}
-	}
-	fl.docs++
-	for i, fc := range fl.codecs {
-		st := &fl.stats[i]
-		if fl.miss[i] {
-			st.missing++
-			continue
-		}
-		switch fc.f.Kind {
-		case KindCategory:
-			if !fl.hashing {
-				st.levels[string(fl.lv[i])]++
-			}
-		case KindNumber:
-			// Welford's running mean and sum of squared deviations
-			// (Knuth, TAOCP vol. 2, 4.2.2), in input order.
-			st.n++
-			d := fl.xs[i] - st.mean
-			st.mean += d / float64(st.n)
-			st.m2 += d * (fl.xs[i] - st.mean)
-			if st.n == 1 || fl.raws[i] < st.min {
-				st.min = fl.raws[i]
-			}
-			if st.n == 1 || fl.raws[i] > st.max {
-				st.max = fl.raws[i]
-			}
-		case KindTime:
-			st.n++
-			if t := fl.times[i]; st.n == 1 || t.Before(st.first) {
-				st.first = t
-			}
-			if t := fl.times[i]; st.n == 1 || t.After(st.last) {
-				st.last = t
-			}
-		}
-	}
-	return nil
-}
-
-// finish freezes the statistics into the fields.
-func (fl *fieldLearner) finish(mode string, minDocs int64) []TableField {
-	out := make([]TableField, len(fl.fields))
-	for i, f := range fl.fields {
-		st := &fl.stats[i]
-		switch f.Kind {
-		case KindCategory:
-			g := &Category{MissingDocs: st.missing}
-			if mode == ModeVocabulary {
-				g.MinDocs = minDocs
-				type lc struct {
-					l string
-					n int64
-				}
-				var kept []lc
-				for l, n := range st.levels {
-					if n >= minDocs {
-						kept = append(kept, lc{l, n})
-					} else {
-						g.OtherDocs += n
-						g.OtherHashes = append(g.OtherHashes, xxhash.Sum64String(l))
-					}
-				}
-				sort.Slice(kept, func(a, b int) bool {
-					if kept[a].n != kept[b].n {
-						return kept[a].n > kept[b].n
-					}
-					return kept[a].l < kept[b].l
-				})
-				for _, k := range kept {
-					g.Levels = append(g.Levels, k.l)
-					g.LevelDocs = append(g.LevelDocs, k.n)
-				}
-				slices.Sort(g.OtherHashes)
-				g.OtherHashes = slices.Compact(g.OtherHashes)
-			}
-			f.Category = g
-		case KindNumber:
-			n := *f.Number
-			n.Docs, n.MissingDocs = st.n, st.missing
-			n.Mean, n.Min, n.Max = st.mean, st.min, st.max
-			if st.n > 0 {
-				n.SD = math.Sqrt(st.m2 / float64(st.n))
-			}
-			f.Number = &n
-		case KindTime:
-			t := *f.Time
-			t.Docs, t.MissingDocs = st.n, st.missing
-			f.Time = &t
-		}
-		out[i] = f
-	}
-	return out
-}
-
-// copyFields returns a deep copy of the settings of fields.
-func copyFields(fields []TableField) []TableField {
+// CloneFields returns a deep copy of fields.
+func CloneFields(fields []TableField) []TableField {
 	if fields == nil {
 		return nil
 	}

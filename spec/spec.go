@@ -1,24 +1,16 @@
-// Package spec is bowline's frozen spec: its schema, save and load with a
-// fingerprint check, validation, and the encoder that applies it to text.
+// Package spec is bowline's spec file: its schema, canonical form, fingerprint, reading and writing, and validation.
 package spec
 
 import (
-	"bufio"
-	"bytes"
-	"compress/gzip"
 	"crypto/sha256"
-	"encoding/binary"
 	"encoding/hex"
-	"encoding/json"
-	"errors"
 	"fmt"
-	"io"
-	"os"
-	"strconv"
 	"strings"
-	"unicode/utf8"
 
-	"github.com/bowline/bowline/internal/atomicfile"
+	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/tokenize"
+	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/weight"
 )
 
 // SchemaVersion is the version of the spec file layout this build writes and
@@ -28,11 +20,35 @@ const SchemaVersion = 1
 // ToolVersion is bowline's version, recorded in every spec it writes.
 const ToolVersion = "0.1.0"
 
-// Mode names.
+// Mode is how keys become columns: a learned vocabulary or a hashing
+// space. In a spec file it is the word "vocabulary" or "hashing".
+type Mode string
+
+// The modes.
 const (
-	ModeVocabulary = "vocabulary"
-	ModeHashing    = "hashing"
+	ModeVocabulary Mode = "vocabulary"
+	ModeHashing    Mode = "hashing"
 )
+
+// MarshalText returns the mode's word; a mode other than the two (or
+// unset, "") is an error.
+func (m Mode) MarshalText() ([]byte, error) {
+	if m != ModeVocabulary && m != ModeHashing && m != "" {
+		return nil, fmt.Errorf("unknown mode %q (want %s or %s)", string(m), ModeVocabulary, ModeHashing)
+	}
+	return []byte(m), nil
+}
+
+// UnmarshalText reads "vocabulary" or "hashing" (or "", unset, which
+// Validate refuses).
+func (m *Mode) UnmarshalText(b []byte) error {
+	v := Mode(b)
+	if _, err := v.MarshalText(); err != nil {
+		return err
+	}
+	*m = v
+	return nil
+}
 
 // Spec is a frozen transformation from text to rows: every setting that
 // changes a row and every number learned from the training corpus.
@@ -66,7 +82,7 @@ type Content struct {
 	// NGrams are the n-gram ranges.
 	NGrams NGrams `json:"ngrams"`
 	// Mode is ModeVocabulary or ModeHashing.
-	Mode string `json:"mode"`
+	Mode Mode `json:"mode"`
 	// Docs is the number of training documents.
 	Docs int64 `json:"docs"`
 	// Vocabulary is set in vocabulary mode.
@@ -93,14 +109,26 @@ type Input struct {
 	NoHeader bool     `json:"no_header,omitempty"`
 }
 
-// Tokens are the tokenizer settings, as flag words.
+// Tokens are the tokenizer settings (see tokenize.Options); the file
+// holds their flag words.
 type Tokens struct {
-	Unicode string `json:"unicode"`
-	Case    string `json:"case"`
-	Accents string `json:"accents"`
-	Numbers string `json:"numbers"`
-	MinLen  int    `json:"min_len"`
-	MaxLen  int    `json:"max_len"`
+	Unicode tokenize.Normalization `json:"unicode"`
+	Case    tokenize.CaseMode      `json:"case"`
+	Accents tokenize.AccentMode    `json:"accents"`
+	Numbers tokenize.NumberMode    `json:"numbers"`
+	MinLen  int                    `json:"min_len"`
+	MaxLen  int                    `json:"max_len"`
+}
+
+// Options returns the tokenizer options, validated.
+func (t Tokens) Options() (tokenize.Options, error) {
+	o := tokenize.Options{Unicode: t.Unicode, Case: t.Case, Accents: t.Accents, Numbers: t.Numbers, MinLen: t.MinLen, MaxLen: t.MaxLen}
+	return o, o.Validate()
+}
+
+// TokensFrom stores tokenizer options.
+func TokensFrom(o tokenize.Options) Tokens {
+	return Tokens{Unicode: o.Unicode, Case: o.Case, Accents: o.Accents, Numbers: o.Numbers, MinLen: o.MinLen, MaxLen: o.MaxLen}
 }
 
 // Stop is the stop list in force.
@@ -119,15 +147,31 @@ type NGrams struct {
 	Chars string `json:"chars"`
 }
 
+// Config parses the ranges.
+func (n NGrams) Config() (ngram.Config, error) {
+	var c ngram.Config
+	var err error
+	if c.Words, err = ngram.ParseWords(n.Words); err != nil {
+		return c, fmt.Errorf("word n-grams: %w", err)
+	}
+	if c.Chars, err = ngram.ParseChars(n.Chars); err != nil {
+		return c, fmt.Errorf("character n-grams: %w", err)
+	}
+	if !c.Words.On() && !c.Chars.On() {
+		return c, fmt.Errorf("no features: word and character n-grams are both off")
+	}
+	return c, nil
+}
+
 // Vocabulary is the learned vocabulary: column i is Keys[i].
 type Vocabulary struct {
 	MinDocs     int64   `json:"min_docs"`
 	MaxDocShare float64 `json:"max_doc_share"`
 	MaxTerms    int     `json:"max_terms"`
 	// Unseen is the unseen-key policy ("drop", "count", "hash:K").
-	Unseen string `json:"unseen"`
+	Unseen vocab.Unseen `json:"unseen"`
 	// Keys, Orders and DocCounts are parallel: the key of each column, its
-	// n-gram order code (kind*100 + n) and its training document count.
+	// n-gram order (an ngram.Order) and its training document count.
 	Keys      []string `json:"keys"`
 	Orders    []int    `json:"orders"`
 	DocCounts []int64  `json:"doc_counts"`
@@ -150,8 +194,8 @@ const TopDocCountsKept = 256
 type Seen struct {
 	// Keys is the number of distinct keys counted.
 	Keys int64 `json:"keys"`
-	// Orders and OrderKeys are parallel: each n-gram order code counted,
-	// ascending, and its number of distinct keys.
+	// Orders and OrderKeys are parallel: each n-gram order counted (an
+	// ngram.Order), ascending, and its number of distinct keys.
 	Orders    []int   `json:"orders"`
 	OrderKeys []int64 `json:"order_keys"`
 	// DocHistogram counts keys by document count: see
@@ -198,9 +242,9 @@ type Hashing struct {
 
 // Weights are the weighting settings and learned numbers.
 type Weights struct {
-	TF   string `json:"tf"`
-	IDF  string `json:"idf"`
-	Norm string `json:"norm"`
+	TF   weight.TF   `json:"tf"`
+	IDF  weight.IDF  `json:"idf"`
+	Norm weight.Norm `json:"norm"`
 	// IDFValues holds one idf per vocabulary column (vocabulary mode, when
 	// IDF is not "none"). Extra unseen columns have weight 1.
 	IDFValues []float64 `json:"idf_values,omitempty"`
@@ -211,11 +255,42 @@ type Weights struct {
 	IDFDefault      float64   `json:"idf_default,omitempty"`
 }
 
+// LabelKind says how a label field becomes a number. In a spec file it is
+// the word "none", "number" or "string".
+type LabelKind string
+
+// The label kinds.
+const (
+	LabelsNone   LabelKind = "none"   // no label field
+	LabelsNumber LabelKind = "number" // numeric labels pass through
+	LabelsString LabelKind = "string" // string labels mapped by Labels.Map
+)
+
+// MarshalText returns the kind's word; another kind (but unset, "") is an
+// error.
+func (k LabelKind) MarshalText() ([]byte, error) {
+	switch k {
+	case LabelsNone, LabelsNumber, LabelsString, "":
+		return []byte(k), nil
+	}
+	return nil, fmt.Errorf("labels: unknown kind %q", string(k))
+}
+
+// UnmarshalText reads "none", "number" or "string" (or "", unset, which
+// Validate refuses).
+func (k *LabelKind) UnmarshalText(b []byte) error {
+	v := LabelKind(b)
+	if _, err := v.MarshalText(); err != nil {
+		return err
+	}
+	*k = v
+	return nil
+}
+
 // Labels says how label fields become numbers.
 type Labels struct {
-	// Kind is "none" (no label field), "number" (numeric labels pass
-	// through) or "string" (mapped by Map).
-	Kind string `json:"kind"`
+	// Kind is LabelsNone, LabelsNumber or LabelsString.
+	Kind LabelKind `json:"kind"`
 	// Map lists string labels sorted by bytes; label Map[i] is written as
 	// i+1 (0 is the label of unlabeled rows).
 	Map []string `json:"map,omitempty"`
@@ -236,137 +311,11 @@ func (s *Spec) Columns() int64 {
 		return 0
 	}
 	n := int64(len(c.Vocabulary.Keys))
-	u, err := parseUnseenColumns(c.Vocabulary.Unseen)
-	if err == nil {
-		n += int64(u)
+	n += int64(c.Vocabulary.Unseen.Columns())
+	for i := range c.Fields {
+		n += int64(c.Fields[i].Columns())
 	}
-	return n + int64(c.fieldColumns())
-}
-
-// Canonical returns the canonical encoding of the content: compact JSON in
-// the field order of the Go structs above, floats in shortest round-trip
-// form, no insignificant space. The fingerprint is its SHA-256.
-func (c *Content) Canonical() ([]byte, error) {
-	if v := c.Vocabulary; v != nil && len(v.Keys) >= fastCanonicalKeys {
-		if b, ok := c.canonicalFast(); ok {
-			return b, nil
-		}
-	}
-	return c.canonicalJSON()
-}
-
-// canonicalJSON is Canonical by encoding/json alone.
-func (c *Content) canonicalJSON() ([]byte, error) {
-	var buf bytes.Buffer
-	enc := json.NewEncoder(&buf)
-	enc.SetEscapeHTML(false)
-	if err := enc.Encode(c); err != nil {
-		return nil, err
-	}
-	return bytes.TrimSuffix(buf.Bytes(), []byte("\n")), nil
-}
-
-// fastCanonicalKeys is the vocabulary size from which Canonical writes the
-// vocabulary's arrays by hand.
-const fastCanonicalKeys = 1024
-
-// vocabArraysMark is what encoding/json writes for the vocabulary's three
-// arrays when they are nil. No other part of a Content encodes to it: a
-// quote inside a JSON string is escaped, and no other object of the
-// content has a "keys" member that can be null.
-var vocabArraysMark = []byte(`"keys":null,"orders":null,"doc_counts":null`)
-
-// canonicalFast is Canonical with the vocabulary's keys, orders and
-// document counts written by hand, byte for byte as encoding/json writes
-// them (a key that is not plain printable ASCII or clean UTF-8 is handed
-// to encoding/json); ok is false when it cannot tell where they go.
-func (c *Content) canonicalFast() ([]byte, bool) {
-	cc := *c
-	vv := *c.Vocabulary
-	vv.Keys, vv.Orders, vv.DocCounts = nil, nil, nil
-	cc.Vocabulary = &vv
-	skeleton, err := cc.canonicalJSON()
-	if err != nil {
-		return nil, false
-	}
-	i := bytes.Index(skeleton, vocabArraysMark)
-	if i < 0 || bytes.Index(skeleton[i+1:], vocabArraysMark) >= 0 {
-		return nil, false
-	}
-	v := c.Vocabulary
-	size := len(skeleton) + 40
-	for _, k := range v.Keys {
-		size += len(k) + 3 + 12
-	}
-	out := make([]byte, 0, size)
-	out = append(out, skeleton[:i]...)
-	out = append(out, `"keys":`...)
-	var one bytes.Buffer
-	enc := json.NewEncoder(&one)
-	enc.SetEscapeHTML(false)
-	if v.Keys == nil {
-		out = append(out, "null"...)
-	} else {
-		out = append(out, '[')
-		for j, k := range v.Keys {
-			if j > 0 {
-				out = append(out, ',')
-			}
-			if plainJSONString(k) {
-				out = append(out, '"')
-				out = append(out, k...)
-				out = append(out, '"')
-				continue
-			}
-			one.Reset()
-			if enc.Encode(k) != nil {
-				return nil, false
-			}
-			out = append(out, bytes.TrimSuffix(one.Bytes(), []byte("\n"))...)
-		}
-		out = append(out, ']')
-	}
-	out = append(out, `,"orders":`...)
-	out = appendInts(out, v.Orders)
-	out = append(out, `,"doc_counts":`...)
-	out = appendInts(out, v.DocCounts)
-	out = append(out, skeleton[i+len(vocabArraysMark):]...)
-	return out, true
-}
-
-// plainJSONString reports whether encoding/json writes s as it is between
-// quotes: printable ASCII other than '"' and '\\', or valid UTF-8 other
-// than U+2028 and U+2029 (which it escapes).
-func plainJSONString(s string) bool {
-	ascii := true
-	for i := 0; i < len(s); i++ {
-		b := s[i]
-		if b < 0x20 || b == '"' || b == '\\' {
-			return false
-		}
-		if b >= utf8.RuneSelf {
-			ascii = false
-		}
-	}
-	if ascii {
-		return true
-	}
-	return utf8.ValidString(s) && !strings.Contains(s, "\u2028") && !strings.Contains(s, "\u2029")
-}
-
-// appendInts appends a JSON array of integers (null for a nil slice).
-func appendInts[T int | int64](out []byte, a []T) []byte {
-	if a == nil {
-		return append(out, "null"...)
-	}
-	out = append(out, '[')
-	for j, x := range a {
-		if j > 0 {
-			out = append(out, ',')
-		}
-		out = strconv.AppendInt(out, int64(x), 10)
-	}
-	return append(out, ']')
+	return n
 }
 
 // Seal computes and sets the fingerprint.
@@ -387,267 +336,6 @@ func (s *Spec) ShortFingerprint() string {
 	f := strings.TrimPrefix(s.Fingerprint, "sha256:")
 	if len(f) > 12 {
 		return f[:12]
-	}
-	return f
-}
-
-type fileLayout struct {
-	Schema      int             `json:"schema"`
-	Tool        string          `json:"tool"`
-	Fingerprint string          `json:"fingerprint"`
-	Parent      string          `json:"parent,omitempty"`
-	Content     json.RawMessage `json:"content"`
-}
-
-// Write writes the sealed spec as JSON.
-func (s *Spec) Write(w io.Writer) error {
-	if s.Fingerprint == "" {
-		if err := s.Seal(); err != nil {
-			return err
-		}
-	}
-	content := s.canon
-	if content == nil {
-		var err error
-		if content, err = s.Content.Canonical(); err != nil {
-			return err
-		}
-	}
-	// The envelope is indented for people; the content is written in its
-	// canonical (compact) form, the very bytes the fingerprint covers.
-	// Indenting a large vocabulary costs more than counting it.
-	str := func(v string) string {
-		b, _ := json.Marshal(v)
-		return string(b)
-	}
-	var buf bytes.Buffer
-	fmt.Fprintf(&buf, "{\n \"schema\": %d,\n \"tool\": %s,\n \"fingerprint\": %s,\n", SchemaVersion, str(s.Tool), str(s.Fingerprint))
-	if s.Parent != "" {
-		fmt.Fprintf(&buf, " \"parent\": %s,\n", str(s.Parent))
-	}
-	buf.WriteString(" \"content\": ")
-	if _, err := w.Write(buf.Bytes()); err != nil {
-		return err
-	}
-	if _, err := w.Write(content); err != nil {
-		return err
-	}
-	_, err := io.WriteString(w, "\n}\n")
-	return err
-}
-
-// Save writes the spec to path atomically, gzipped when the name ends in
-// ".gz".
-func (s *Spec) Save(path string) error {
-	return atomicfile.WriteFile(path, func(w io.Writer) error {
-		if strings.HasSuffix(path, ".gz") {
-			zw, _ := gzip.NewWriterLevel(w, gzip.BestCompression)
-			if err := s.Write(zw); err != nil {
-				return err
-			}
-			return zw.Close()
-		}
-		return s.Write(w)
-	})
-}
-
-// LoadError explains why a spec file was refused.
-type LoadError struct {
-	// File is the spec's path.
-	File string
-	// Reason is one of "unreadable", "truncated", "not a spec", "newer
-	// schema", "fingerprint mismatch", "invalid".
-	Reason string
-	// Err is the detail.
-	Err error
-}
-
-func (e *LoadError) Error() string {
-	return fmt.Sprintf("spec %s: %s: %v", e.File, e.Reason, e.Err)
-}
-
-func (e *LoadError) Unwrap() error { return e.Err }
-
-// Load reads a spec file (gzipped or not, by magic bytes), checks its schema
-// version and fingerprint, and validates it.
-func Load(path string) (*Spec, error) {
-	return load(path, true)
-}
-
-// LoadEncoder loads the spec at path as Load does and makes its Encoder.
-// The vocabulary's keys are checked for duplicates once, while the
-// encoder indexes them, rather than first by Validate and again by the
-// index (0.07 s and 8 MB for 600,000 keys). A duplicate key is then a
-// *LoadError with Reason "invalid", as with Load.
-func LoadEncoder(path string) (*Spec, *Encoder, error) {
-	s, err := load(path, false)
-	if err != nil {
-		return nil, nil, err
-	}
-	enc, err := NewEncoder(s)
-	if err != nil {
-		return nil, nil, &LoadError{File: path, Reason: "invalid", Err: err}
-	}
-	return s, enc, nil
-}
-
-func load(path string, dupKeys bool) (*Spec, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, &LoadError{File: path, Reason: "unreadable", Err: unwrapPathErr(err)}
-	}
-	defer f.Close()
-	return read(f, path, dupKeys)
-}
-
-func unwrapPathErr(err error) error {
-	var pe *os.PathError
-	if errors.As(err, &pe) {
-		return pe.Err
-	}
-	return err
-}
-
-// Read reads a spec from r; name is used in errors.
-func Read(r io.Reader, name string) (*Spec, error) {
-	return read(r, name, true)
-}
-
-// read is Read; without dupKeys, validation leaves out the check for
-// duplicate vocabulary keys (see LoadEncoder).
-func read(r io.Reader, name string, dupKeys bool) (*Spec, error) {
-	hint := sizeHint(r)
-	br := bufio.NewReader(r)
-	var src io.Reader = br
-	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
-		zr, err := gzip.NewReader(br)
-		if err != nil {
-			return nil, &LoadError{File: name, Reason: "truncated", Err: err}
-		}
-		src = zr
-		hint = gzipSizeHint(r)
-	}
-	data, err := readAll(src, hint)
-	if err != nil {
-		reason := "unreadable"
-		if errors.Is(err, io.ErrUnexpectedEOF) {
-			reason = "truncated"
-		}
-		return nil, &LoadError{File: name, Reason: reason, Err: err}
-	}
-	// fastDecode gives the same result as the encoding/json path below,
-	// or gives up; the encoding/json path then also reports the errors.
-	fl, content, fast := fastDecode(data)
-	if !fast {
-		fl = fileLayout{}
-		dec := json.NewDecoder(bytes.NewReader(data))
-		dec.DisallowUnknownFields()
-		if err := dec.Decode(&fl); err != nil {
-			reason := "not a spec"
-			if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF) {
-				reason = "truncated"
-			}
-			return nil, &LoadError{File: name, Reason: reason, Err: err}
-		}
-	}
-	if fl.Schema == 0 || fl.Content == nil {
-		return nil, &LoadError{File: name, Reason: "not a spec", Err: errors.New("no schema or content field")}
-	}
-	if fl.Schema > SchemaVersion {
-		return nil, &LoadError{File: name, Reason: "newer schema", Err: fmt.Errorf("schema version %d (written by %s); this bowline %s reads up to version %d", fl.Schema, fl.Tool, ToolVersion, SchemaVersion)}
-	}
-	s := &Spec{Fingerprint: fl.Fingerprint, Parent: fl.Parent, Tool: fl.Tool, Content: content}
-	if !fast {
-		s.Content = Content{}
-		cdec := json.NewDecoder(bytes.NewReader(fl.Content))
-		cdec.DisallowUnknownFields()
-		if err := cdec.Decode(&s.Content); err != nil {
-			return nil, &LoadError{File: name, Reason: "invalid", Err: err}
-		}
-	}
-	// Bowline writes the content in canonical form, so the raw bytes
-	// usually hash to the fingerprint as they are; otherwise (a file
-	// re-indented by hand, say) the content is encoded canonically again.
-	sum := sha256.Sum256(fl.Content)
-	if "sha256:"+hex.EncodeToString(sum[:]) != fl.Fingerprint {
-		canon, err := s.Content.Canonical()
-		if err != nil {
-			return nil, &LoadError{File: name, Reason: "invalid", Err: err}
-		}
-		sum = sha256.Sum256(canon)
-	}
-	if want := "sha256:" + hex.EncodeToString(sum[:]); want != fl.Fingerprint {
-		return nil, &LoadError{File: name, Reason: "fingerprint mismatch", Err: fmt.Errorf("file says %s but its contents hash to %s: the spec was edited or damaged after bowline wrote it", short(fl.Fingerprint), short(want))}
-	}
-	if err := s.validate(dupKeys); err != nil {
-		return nil, &LoadError{File: name, Reason: "invalid", Err: err}
-	}
-	return s, nil
-}
-
-// readAll is io.ReadAll with the buffer sized up front to hint bytes
-// (0: unknown), so that reading a large spec copies it once.
-func readAll(r io.Reader, hint int64) ([]byte, error) {
-	if hint <= 0 {
-		return io.ReadAll(r)
-	}
-	buf := bytes.NewBuffer(make([]byte, 0, hint+bytes.MinRead))
-	_, err := buf.ReadFrom(r)
-	return buf.Bytes(), err
-}
-
-// maxSizeHint bounds sizeHint: a larger spec is read with a growing
-// buffer.
-const maxSizeHint = 1 << 30
-
-// sizeHint guesses the number of bytes Read will read from r, before
-// anything is read: the size of a file or the length of an in-memory
-// reader. 0 when unknown. It is only a capacity.
-func sizeHint(r io.Reader) int64 {
-	var size int64
-	switch r := r.(type) {
-	case *os.File:
-		fi, err := r.Stat()
-		if err != nil || !fi.Mode().IsRegular() {
-			return 0
-		}
-		size = fi.Size()
-	case interface{ Len() int }:
-		size = int64(r.Len())
-	}
-	if size > maxSizeHint {
-		return 0
-	}
-	return size
-}
-
-// gzipSizeHint is sizeHint for a gzipped file: the uncompressed size its
-// trailer records (RFC 1952 section 2.3.1, ISIZE: the size modulo 2^32 of
-// the last member), bounded by the largest deflate ratio (1032:1, common
-// practice).
-func gzipSizeHint(r io.Reader) int64 {
-	f, ok := r.(*os.File)
-	if !ok {
-		return 0
-	}
-	size := sizeHint(f)
-	var trailer [4]byte
-	if size < 18 {
-		return 0
-	}
-	if _, err := f.ReadAt(trailer[:], size-4); err != nil {
-		return 0
-	}
-	return min(int64(binary.LittleEndian.Uint32(trailer[:])), 1032*size, maxSizeHint)
-}
-
-func short(f string) string {
-	f = strings.TrimPrefix(f, "sha256:")
-	if len(f) > 12 {
-		return f[:12]
-	}
-	if f == "" {
-		return "(none)"
 	}
 	return f
 }

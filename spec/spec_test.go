@@ -1,18 +1,20 @@
-package spec
+package spec_test
 
 import (
 	"bytes"
 	"compress/gzip"
 	"encoding/json"
 	"errors"
+	"io/fs"
 	"os"
 	"path/filepath"
-	"reflect"
-	"strconv"
 	"strings"
 	"testing"
 
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
 	"github.com/bowline/bowline/tokenize"
 	"github.com/bowline/bowline/vocab"
@@ -27,10 +29,10 @@ var docs = []string{
 	"The app froze when I tried to unlock the bike",
 }
 
-func settings(mode string) *Settings {
+func settings(mode spec.Mode) *learn.Settings {
 	en, _ := stopwords.Builtin("en")
-	s := &Settings{
-		Input:         Input{Format: "tsv", Text: []string{"text"}, Label: "team"},
+	s := &learn.Settings{
+		Input:         spec.Input{Format: "tsv", Text: []string{"text"}, Label: "team"},
 		Tokens:        tokenize.DefaultOptions(),
 		StopSources:   []string{"en"},
 		StopWords:     en,
@@ -42,15 +44,15 @@ func settings(mode string) *Settings {
 		IDF:           weight.IDFSmooth,
 		Norm:          weight.NormL2,
 	}
-	if mode == ModeHashing {
-		s.Hashing = Hashing{Width: 1 << 10, Seed: 7, Signed: true}
+	if mode == spec.ModeHashing {
+		s.Hashing = spec.Hashing{Width: 1 << 10, Seed: 7, Signed: true}
 	}
 	return s
 }
 
-func learn(t *testing.T, s *Settings) *Spec {
+func learnSpec(t *testing.T, s *learn.Settings) *spec.Spec {
 	t.Helper()
-	l, err := NewLearner(s)
+	l, err := learn.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -58,7 +60,7 @@ func learn(t *testing.T, s *Settings) *Spec {
 	for _, d := range docs {
 		w.Observe([][]byte{[]byte(d)})
 	}
-	sp, _, err := l.Finish(w, LabelsFrom([]string{"bikes", "billing", "app"}, true))
+	sp, _, err := l.Finish(w, learn.LabelsFrom([]string{"bikes", "billing", "app"}, true))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -66,14 +68,14 @@ func learn(t *testing.T, s *Settings) *Spec {
 }
 
 func TestSaveLoadRoundTrip(t *testing.T) {
-	for _, mode := range []string{ModeVocabulary, ModeHashing} {
+	for _, mode := range []spec.Mode{spec.ModeVocabulary, spec.ModeHashing} {
 		for _, name := range []string{"spec.json", "spec.json.gz"} {
-			sp := learn(t, settings(mode))
+			sp := learnSpec(t, settings(mode))
 			p := filepath.Join(t.TempDir(), name)
 			if err := sp.Save(p); err != nil {
 				t.Fatal(err)
 			}
-			got, err := Load(p)
+			got, err := spec.Load(p)
 			if err != nil {
 				t.Fatalf("%s %s: %v", mode, name, err)
 			}
@@ -86,8 +88,8 @@ func TestSaveLoadRoundTrip(t *testing.T) {
 				t.Fatalf("%s: content differs after round trip", mode)
 			}
 			// Encoding with the loaded spec gives the same rows.
-			e1, _ := NewEncoder(sp)
-			e2, err := NewEncoder(got)
+			e1, _ := encode.New(sp)
+			e2, err := encode.New(got)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -115,19 +117,19 @@ func equalRows(a, b weight.Row) bool {
 }
 
 func TestFingerprintIsDeterministic(t *testing.T) {
-	a := learn(t, settings(ModeVocabulary))
-	b := learn(t, settings(ModeVocabulary))
+	a := learnSpec(t, settings(spec.ModeVocabulary))
+	b := learnSpec(t, settings(spec.ModeVocabulary))
 	if a.Fingerprint != b.Fingerprint {
 		t.Fatal("same corpus and settings gave different fingerprints")
 	}
-	s := settings(ModeVocabulary)
+	s := settings(spec.ModeVocabulary)
 	s.Norm = weight.NormL1
-	if c := learn(t, s); c.Fingerprint == a.Fingerprint {
+	if c := learnSpec(t, s); c.Fingerprint == a.Fingerprint {
 		t.Fatal("a different norm kept the fingerprint")
 	}
 }
 
-func writeSpec(t *testing.T, sp *Spec) (string, []byte) {
+func writeSpec(t *testing.T, sp *spec.Spec) (string, []byte) {
 	t.Helper()
 	var buf bytes.Buffer
 	if err := sp.Write(&buf); err != nil {
@@ -136,24 +138,27 @@ func writeSpec(t *testing.T, sp *Spec) (string, []byte) {
 	return filepath.Join(t.TempDir(), "spec.json"), buf.Bytes()
 }
 
-func reason(t *testing.T, p string, data []byte) string {
+func reason(t *testing.T, p string, data []byte) error {
 	t.Helper()
 	if err := os.WriteFile(p, data, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	_, err := Load(p)
-	var le *LoadError
+	_, err := spec.Load(p)
+	var le *spec.LoadError
 	if !errors.As(err, &le) {
 		t.Fatalf("want a LoadError, got %v", err)
 	}
 	if !strings.Contains(err.Error(), p) {
 		t.Fatalf("error does not name the file: %v", err)
 	}
+	if !errors.Is(err, le.Reason) {
+		t.Fatalf("errors.Is(%v, %v) is false", err, le.Reason)
+	}
 	return le.Reason
 }
 
 func TestLoadRefuses(t *testing.T) {
-	sp := learn(t, settings(ModeVocabulary))
+	sp := learnSpec(t, settings(spec.ModeVocabulary))
 	p, good := writeSpec(t, sp)
 
 	// A changed document count: the content no longer hashes to the
@@ -165,174 +170,64 @@ func TestLoadRefuses(t *testing.T) {
 	if bytes.Equal(tampered, good) {
 		t.Fatal("test did not tamper")
 	}
-	if r := reason(t, p, tampered); r != "fingerprint mismatch" {
-		t.Fatalf("tampered: reason %q", r)
+	if r := reason(t, p, tampered); r != spec.ErrFingerprint {
+		t.Fatalf("tampered: reason %v", r)
 	}
-	if r := reason(t, p, good[:len(good)/2]); r != "truncated" {
-		t.Fatalf("truncated: reason %q", r)
+	if r := reason(t, p, good[:len(good)/2]); r != spec.ErrTruncated {
+		t.Fatalf("truncated: reason %v", r)
 	}
 	newer := bytes.Replace(good, []byte(`"schema": 1`), []byte(`"schema": 99`), 1)
-	if r := reason(t, p, newer); r != "newer schema" {
-		t.Fatalf("newer: reason %q", r)
+	if r := reason(t, p, newer); r != spec.ErrNewerSchema {
+		t.Fatalf("newer: reason %v", r)
 	}
-	if r := reason(t, p, []byte(`{"hello": "world"}`)); r != "not a spec" {
-		t.Fatalf("not a spec: reason %q", r)
+	if r := reason(t, p, []byte(`{"hello": "world"}`)); r != spec.ErrNotSpec {
+		t.Fatalf("not a spec: reason %v", r)
 	}
 	var gz bytes.Buffer
 	zw := gzip.NewWriter(&gz)
 	zw.Write(good)
 	zw.Close()
-	if r := reason(t, p, gz.Bytes()[:gz.Len()-10]); r != "truncated" {
-		t.Fatalf("truncated gzip: reason %q", r)
+	if r := reason(t, p, gz.Bytes()[:gz.Len()-10]); r != spec.ErrTruncated {
+		t.Fatalf("truncated gzip: reason %v", r)
 	}
-	if _, err := Load(filepath.Join(t.TempDir(), "missing.json")); err == nil {
-		t.Fatal("missing file loaded")
-	}
-}
-
-// TestTFIDFHandComputed checks a whole row against arithmetic done by hand
-// with the formulas of Manning, Raghavan, Schütze, Introduction to
-// Information Retrieval (2008), ch. 6: log tf 1 + ln tf, smooth idf
-// ln((1+N)/(1+df)) + 1, then L2 normalization.
-func TestTFIDFHandComputed(t *testing.T) {
-	s := &Settings{
-		Input:  Input{Format: "lines", Text: []string{"1"}},
-		Tokens: tokenize.DefaultOptions(),
-		NGrams: ngram.Config{Words: ngram.Range{Min: 1, Max: 1}},
-		Mode:   ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(),
-		TF: weight.TFLog, IDF: weight.IDFSmooth, Norm: weight.NormL2,
-	}
-	l, err := NewLearner(s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	w := l.NewWorker()
-	for _, d := range []string{"dock dock bike", "bike app", "dock"} {
-		w.Observe([][]byte{[]byte(d)})
-	}
-	sp, _, err := l.Finish(w, Labels{Kind: "none"})
-	if err != nil {
-		t.Fatal(err)
-	}
-	// df: dock 2, bike 2, app 1; N = 3. Column order: document count
-	// descending, then key bytes: bike, dock, app.
-	if got := strings.Join(sp.Content.Vocabulary.Keys, " "); got != "bike dock app" {
-		t.Fatalf("columns %q", got)
-	}
-	enc, err := NewEncoder(sp)
-	if err != nil {
-		t.Fatal(err)
-	}
-	row, _ := enc.Encode([][]byte{[]byte("dock dock bike")})
-	// tf: bike 1 -> 1; dock 2 -> 1 + ln 2 = 1.693147.
-	// idf: bike, dock ln(4/3) + 1 = 1.287682.
-	// weights: bike 1.287682, dock 2.180233; L2 norm 2.532099.
-	// normalized: bike 0.508543, dock 0.861037.
-	want := []float64{0.508543, 0.861037}
-	if len(row.Indices) != 2 || row.Indices[0] != 0 || row.Indices[1] != 1 {
-		t.Fatalf("indices %v", row.Indices)
-	}
-	for i, v := range want {
-		if d := row.Values[i] - v; d > 1e-6 || d < -1e-6 {
-			t.Fatalf("value %d = %.6f, want %.6f", i, row.Values[i], v)
-		}
-	}
-}
-
-func TestLabels(t *testing.T) {
-	sp := learn(t, settings(ModeVocabulary))
-	enc, _ := NewEncoder(sp)
-	for raw, want := range map[string]float64{"app": 1, "bikes": 2, "billing": 3} {
-		got, err := enc.Label([]byte(raw), nil)
-		if err != nil || got != want {
-			t.Fatalf("label %q = %v, %v; want %v", raw, got, err, want)
-		}
-	}
-	if v, err := enc.Label(nil, nil); err != nil || v != 0 {
-		t.Fatalf("unlabeled = %v, %v", v, err)
-	}
-	if _, err := enc.Label([]byte("docks"), nil); err == nil {
-		t.Fatal("unseen label accepted")
-	}
-	fb := -1.0
-	if v, err := enc.Label([]byte("docks"), &fb); err != nil || v != -1 {
-		t.Fatalf("fallback = %v, %v", v, err)
-	}
-	if l := LabelsFrom([]string{"1", "-1", "0.5"}, true); l.Kind != "number" {
-		t.Fatalf("numeric labels: %+v", l)
+	_, err := spec.Load(filepath.Join(t.TempDir(), "missing.json"))
+	if !errors.Is(err, spec.ErrUnreadable) || !errors.Is(err, fs.ErrNotExist) {
+		t.Fatalf("missing file: %v, want spec.ErrUnreadable and fs.ErrNotExist", err)
 	}
 }
 
 // TestReindentedSpecLoads: whitespace does not change a spec's meaning, so a
 // spec whose content was re-indented still loads with its fingerprint.
 func TestReindentedSpecLoads(t *testing.T) {
-	sp := learn(t, settings(ModeVocabulary))
+	sp := learnSpec(t, settings(spec.ModeVocabulary))
 	p, good := writeSpec(t, sp)
 	var pretty bytes.Buffer
 	if err := json.Indent(&pretty, good, "", "\t"); err != nil {
 		t.Fatal(err)
 	}
 	os.WriteFile(p, pretty.Bytes(), 0o644)
-	got, err := Load(p)
+	got, err := spec.Load(p)
 	if err != nil || got.Fingerprint != sp.Fingerprint {
 		t.Fatalf("re-indented spec: %v", err)
 	}
 }
 
-// TestLoadEncoderRefusesDuplicateKeys: LoadEncoder leaves the duplicate
-// check to the encoder's index, and still refuses a spec that has a key
-// twice, as Load does, for a unigram, a bigram and a key of another kind
-// (character n-grams); a good spec loads the same either way.
-func TestLoadEncoderRefusesDuplicateKeys(t *testing.T) {
-	st := settings(ModeVocabulary)
-	st.NGrams.Chars = ngram.Range{Min: 3, Max: 3}
-	good := learn(t, st)
-	dir := t.TempDir()
-	p := filepath.Join(dir, "spec.json")
-	if err := good.Save(p); err != nil {
-		t.Fatal(err)
+// TestSettingsDiff: the first setting that differs is named with both
+// values; input fields count only when asked.
+func TestSettingsDiff(t *testing.T) {
+	a, _ := settings(spec.ModeVocabulary).Content()
+	b, _ := settings(spec.ModeVocabulary).Content()
+	if d := spec.SettingsDiff(&a, &b, true); d != "" {
+		t.Errorf("equal settings differ: %s", d)
 	}
-	s1, err := Load(p)
-	if err != nil {
-		t.Fatal(err)
+	b.NGrams.Words = "1-3"
+	b.Weights.Norm = weight.NormL1
+	if d := spec.SettingsDiff(&a, &b, true); d != `ngrams.words: "1-2" vs "1-3"` {
+		t.Errorf("first difference %q", d)
 	}
-	s2, enc, err := LoadEncoder(p)
-	if err != nil || enc == nil || !reflect.DeepEqual(s1, s2) {
-		t.Fatalf("LoadEncoder of a good spec: %v", err)
-	}
-	keys := good.Content.Vocabulary.Keys
-	orders := good.Content.Vocabulary.Orders
-	kinds := map[int][]int{} // order code -> columns
-	for col, o := range orders {
-		kinds[o] = append(kinds[o], col)
-	}
-	if len(kinds) < 3 {
-		t.Fatalf("want unigrams, bigrams and character n-grams, got order codes %v", kinds)
-	}
-	tried := 0
-	for code, cols := range kinds {
-		if len(cols) < 2 {
-			continue
-		}
-		tried++
-		bad := learn(t, st)
-		v := bad.Content.Vocabulary
-		a, b := cols[0], cols[len(cols)-1]
-		v.Keys[b] = keys[a]
-		bad.Fingerprint, bad.canon = "", nil
-		if err := bad.Save(p); err != nil {
-			t.Fatal(err)
-		}
-		var le *LoadError
-		if _, err := Load(p); !errors.As(err, &le) || le.Reason != "invalid" {
-			t.Fatalf("order %d: Load gave %v, want an invalid spec", code, err)
-		}
-		_, _, err := LoadEncoder(p)
-		if !errors.As(err, &le) || le.Reason != "invalid" || !strings.Contains(err.Error(), strconv.Quote(keys[a])) {
-			t.Fatalf("order %d: LoadEncoder gave %v, want an invalid spec naming %q", code, err, keys[a])
-		}
-	}
-	if tried < 3 {
-		t.Fatalf("duplicated keys of %d kinds, want 3", tried)
+	b = a
+	b.Input.Format = "csv"
+	if spec.SettingsDiff(&a, &b, false) != "" || spec.SettingsDiff(&a, &b, true) == "" {
+		t.Error("input fields compared when they should not be, or not when they should")
 	}
 }

@@ -7,6 +7,10 @@ import (
 	"strconv"
 	"sync"
 	"testing"
+
+	"github.com/bowline/bowline/tokenize"
+	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/weight"
 )
 
 // syllables build invented words for the generated vocabularies below.
@@ -45,18 +49,18 @@ func bigVocabularySpec(n int, withIDF bool) *Spec {
 	keys[n/2], keys[n/2+1], keys[n/2+2] = `say "hi"`, "café", "line\u2028break"
 	sp := &Spec{Content: Content{
 		Input:      Input{Format: "lines", Text: []string{"line"}},
-		Tokens:     Tokens{Unicode: "nfkc", Case: "fold", Accents: "keep", Numbers: "keep", MinLen: 1, MaxLen: 64},
+		Tokens:     TokensFrom(tokenize.DefaultOptions()),
 		Stop:       Stop{Sources: []string{"en"}, KeepNegations: true, Words: []string{"a", "about", "the"}},
 		Stem:       "none",
 		NGrams:     NGrams{Words: "1-2", Chars: "off"},
 		Mode:       ModeVocabulary,
 		Docs:       90000,
-		Vocabulary: &Vocabulary{MinDocs: 1, MaxDocShare: 1, Unseen: "drop", Keys: keys, Orders: orders, DocCounts: counts},
-		Weights:    Weights{TF: "count", IDF: "none", Norm: "none"},
-		Labels:     Labels{Kind: "none"},
+		Vocabulary: &Vocabulary{MinDocs: 1, MaxDocShare: 1, Unseen: vocab.Unseen{Mode: vocab.UnseenDrop}, Keys: keys, Orders: orders, DocCounts: counts},
+		Weights:    Weights{TF: weight.TFCount, IDF: weight.IDFNone, Norm: weight.NormNone},
+		Labels:     Labels{Kind: LabelsNone},
 	}}
 	if withIDF {
-		sp.Content.Weights.IDF, sp.Content.Weights.Norm = "smooth", "l2"
+		sp.Content.Weights.IDF, sp.Content.Weights.Norm = weight.IDFSmooth, weight.NormL2
 		idf := make([]float64, n)
 		for i, c := range counts {
 			idf[i] = 1 + float64(90001)/float64(c+1)/7.3
@@ -80,14 +84,14 @@ func bigHashingSpec(n int) *Spec {
 	}
 	sp := &Spec{Content: Content{
 		Input:   Input{Format: "lines", Text: []string{"line"}},
-		Tokens:  Tokens{Unicode: "nfkc", Case: "fold", Accents: "keep", Numbers: "keep", MinLen: 1, MaxLen: 64},
+		Tokens:  TokensFrom(tokenize.DefaultOptions()),
 		Stem:    "none",
 		NGrams:  NGrams{Words: "1-2", Chars: "off"},
 		Mode:    ModeHashing,
 		Docs:    90000,
 		Hashing: &Hashing{Width: 1 << 20, Seed: 0},
-		Weights: Weights{TF: "count", IDF: "smooth", Norm: "none", IDFBuckets: buckets, IDFBucketValues: values, IDFDefault: 11.2},
-		Labels:  Labels{Kind: "none"},
+		Weights: Weights{TF: weight.TFCount, IDF: weight.IDFSmooth, Norm: weight.NormNone, IDFBuckets: buckets, IDFBucketValues: values, IDFDefault: 11.2},
+		Labels:  Labels{Kind: LabelsNone},
 	}}
 	if err := sp.Seal(); err != nil {
 		panic(err)

@@ -5,11 +5,9 @@ import (
 	"hash/maphash"
 	"math/bits"
 	"sort"
-	"strconv"
-	"strings"
 
 	"github.com/bowline/bowline/hashing"
-	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/tokenize"
 	"github.com/bowline/bowline/weight"
 )
 
@@ -20,19 +18,27 @@ func (s *Spec) Validate() error { return s.validate(true) }
 // vocabulary keys.
 func (s *Spec) validate(dupKeys bool) error {
 	c := &s.Content
-	if _, err := c.Analysis(); err != nil {
+	if _, err := c.Tokens.Options(); err != nil {
 		return err
 	}
-	if _, err := weight.ParseTF(c.Weights.TF); err != nil {
+	if c.Stem != "" && c.Stem != "none" {
+		if _, err := tokenize.NewStemmer(c.Stem); err != nil {
+			return err
+		}
+	}
+	if _, err := c.NGrams.Config(); err != nil {
 		return err
 	}
-	idf, err := weight.ParseIDF(c.Weights.IDF)
-	if err != nil {
+	if _, err := c.Weights.TF.MarshalText(); err != nil {
 		return err
 	}
-	if _, err := weight.ParseNorm(c.Weights.Norm); err != nil {
+	if _, err := c.Weights.IDF.MarshalText(); err != nil {
 		return err
 	}
+	if _, err := c.Weights.Norm.MarshalText(); err != nil {
+		return err
+	}
+	idf := c.Weights.IDF
 	if len(c.Input.Text) == 0 {
 		return fmt.Errorf("input: no text field")
 	}
@@ -48,7 +54,7 @@ func (s *Spec) validate(dupKeys bool) error {
 		if len(v.Retired) != 0 && len(v.Retired) != len(v.Keys) {
 			return fmt.Errorf("vocabulary: %d keys but %d retired flags", len(v.Keys), len(v.Retired))
 		}
-		if _, err := vocab.ParseUnseen(v.Unseen); err != nil {
+		if _, err := v.Unseen.MarshalText(); err != nil {
 			return err
 		}
 		if dupKeys {
@@ -78,18 +84,18 @@ func (s *Spec) validate(dupKeys bool) error {
 	default:
 		return fmt.Errorf("unknown mode %q (want %s or %s)", c.Mode, ModeVocabulary, ModeHashing)
 	}
-	if err := c.validateFields(); err != nil {
+	if err := c.ValidateFields(); err != nil {
 		return err
 	}
 	if len(c.Labels.Values) != len(c.Labels.Counts) {
 		return fmt.Errorf("labels: %d values but %d counts", len(c.Labels.Values), len(c.Labels.Counts))
 	}
 	switch c.Labels.Kind {
-	case "none", "number":
+	case LabelsNone, LabelsNumber:
 		if len(c.Labels.Map) != 0 {
 			return fmt.Errorf("labels: kind %q with a label map", c.Labels.Kind)
 		}
-	case "string":
+	case LabelsString:
 		if !sort.StringsAreSorted(c.Labels.Map) {
 			return fmt.Errorf("labels: map not sorted")
 		}
@@ -97,36 +103,6 @@ func (s *Spec) validate(dupKeys bool) error {
 		return fmt.Errorf("labels: unknown kind %q", c.Labels.Kind)
 	}
 	return nil
-}
-
-func parseUnseenColumns(s string) (int, error) {
-	u, err := vocab.ParseUnseen(s)
-	if err != nil {
-		return 0, err
-	}
-	return u.Columns(), nil
-}
-
-// LabelsFrom decides how labels become numbers from the distinct label
-// values of the training corpus: all numeric means pass-through, anything
-// else a sorted label map.
-func LabelsFrom(values []string, hasLabel bool) Labels {
-	if !hasLabel {
-		return Labels{Kind: "none"}
-	}
-	numeric := true
-	for _, v := range values {
-		if _, err := strconv.ParseFloat(strings.TrimSpace(v), 64); err != nil {
-			numeric = false
-			break
-		}
-	}
-	if numeric {
-		return Labels{Kind: "number"}
-	}
-	m := append([]string(nil), values...)
-	sort.Strings(m)
-	return Labels{Kind: "string", Map: m}
 }
 
 // firstDuplicate returns the first index whose key equals an earlier key,

@@ -176,3 +176,54 @@ func (o Options) Validate() error {
 	}
 	return nil
 }
+
+func marshalEnum(names []string, v uint8, what string) ([]byte, error) {
+	if int(v) >= len(names) {
+		return nil, fmt.Errorf("tokenize: unknown %s %d", what, v)
+	}
+	return []byte(names[v]), nil
+}
+
+// MarshalText returns the flag word for n.
+func (n Normalization) MarshalText() ([]byte, error) {
+	return marshalEnum(normNames[:], uint8(n), "normalization")
+}
+
+// UnmarshalText parses a flag word as ParseNormalization does.
+func (n *Normalization) UnmarshalText(b []byte) (err error) {
+	*n, err = ParseNormalization(string(b))
+	return err
+}
+
+// MarshalText returns the flag word for c.
+func (c CaseMode) MarshalText() ([]byte, error) {
+	return marshalEnum(caseNames[:], uint8(c), "case mode")
+}
+
+// UnmarshalText parses a flag word as ParseCase does.
+func (c *CaseMode) UnmarshalText(b []byte) (err error) {
+	*c, err = ParseCase(string(b))
+	return err
+}
+
+// MarshalText returns the flag word for a.
+func (a AccentMode) MarshalText() ([]byte, error) {
+	return marshalEnum(accentNames[:], uint8(a), "accent mode")
+}
+
+// UnmarshalText parses a flag word as ParseAccents does.
+func (a *AccentMode) UnmarshalText(b []byte) (err error) {
+	*a, err = ParseAccents(string(b))
+	return err
+}
+
+// MarshalText returns the flag word for n.
+func (n NumberMode) MarshalText() ([]byte, error) {
+	return marshalEnum(numberNames[:], uint8(n), "number mode")
+}
+
+// UnmarshalText parses a flag word as ParseNumbers does.
+func (n *NumberMode) UnmarshalText(b []byte) (err error) {
+	*n, err = ParseNumbers(string(b))
+	return err
+}

@@ -100,3 +100,19 @@ func (u Unseen) Columns() int {
 	}
 	return 0
 }
+
+// MarshalText returns the flag word of u (see String); an unknown mode is
+// an error.
+func (u Unseen) MarshalText() ([]byte, error) {
+	if u.Mode > UnseenHash {
+		return nil, fmt.Errorf("vocab: unknown unseen mode %d", u.Mode)
+	}
+	return []byte(u.String()), nil
+}
+
+// UnmarshalText parses a flag word as ParseUnseen does.
+func (u *Unseen) UnmarshalText(b []byte) error {
+	v, err := ParseUnseen(string(b))
+	*u = v
+	return err
+}

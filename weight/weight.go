@@ -143,3 +143,40 @@ func IDFTable(mode IDF, n int64, df []int64) []float64 {
 	}
 	return t
 }
+
+// MarshalText returns the flag word of t.
+func (t TF) MarshalText() ([]byte, error) { return marshalWord("tf", uint8(t), tfWords[:]) }
+
+// UnmarshalText parses a flag word as ParseTF does.
+func (t *TF) UnmarshalText(b []byte) error {
+	v, err := ParseTF(string(b))
+	*t = v
+	return err
+}
+
+// MarshalText returns the flag word of i.
+func (i IDF) MarshalText() ([]byte, error) { return marshalWord("idf", uint8(i), idfWords[:]) }
+
+// UnmarshalText parses a flag word as ParseIDF does.
+func (i *IDF) UnmarshalText(b []byte) error {
+	v, err := ParseIDF(string(b))
+	*i = v
+	return err
+}
+
+// MarshalText returns the flag word of n.
+func (n Norm) MarshalText() ([]byte, error) { return marshalWord("norm", uint8(n), normWords[:]) }
+
+// UnmarshalText parses a flag word as ParseNorm does.
+func (n *Norm) UnmarshalText(b []byte) error {
+	v, err := ParseNorm(string(b))
+	*n = v
+	return err
+}
+
+func marshalWord(what string, v uint8, words []string) ([]byte, error) {
+	if int(v) >= len(words) {
+		return nil, fmt.Errorf("weight: no %s word for %d", what, v)
+	}
+	return []byte(words[v]), nil
+}

@@ -15,6 +15,7 @@ import (
 	"github.com/bowline/bowline"
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/internal/serve"
 	"github.com/bowline/bowline/ngram"
@@ -31,13 +32,13 @@ func testServer(t *testing.T, maxBody int64) (*bowline.Encoder, *httptest.Server
 	if err := demo.WriteTSV(&b, demo.Options{Docs: 300, Seed: 1}); err != nil {
 		t.Fatal(err)
 	}
-	st := &spec.Settings{Input: spec.Input{Format: "tsv", Text: []string{"text"}}, Tokens: tokenize.DefaultOptions(), Mode: spec.ModeVocabulary,
+	st := &learn.Settings{Input: spec.Input{Format: "tsv", Text: []string{"text"}}, Tokens: tokenize.DefaultOptions(), Mode: spec.ModeVocabulary,
 		Cutoffs: vocab.Cutoffs{MinDocs: 1, MaxDocShare: 1}}
 	var err error
 	if st.NGrams.Words, err = ngram.ParseWords("1-2"); err != nil { // --words 1-2
 		t.Fatal(err)
 	}
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}

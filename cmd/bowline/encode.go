@@ -9,9 +9,9 @@ import (
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
+	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/report"
-	"github.com/bowline/bowline/spec"
 )
 
 func runEncode(args []string, stdout, stderr io.Writer) error {
@@ -63,7 +63,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	s, enc, err := spec.LoadEncoder(specPath)
+	s, enc, err := encode.Load(specPath)
 	if err != nil {
 		return err
 	}
@@ -130,7 +130,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 		}
 	}
 	if explainN > 0 && fig.Collisions != nil && len(fig.Collisions.Crowded) > 0 {
-		if err := explainBuckets(path, copts, s, fig.Collisions.Crowded, int64(of.indexBase), explainOut); err != nil {
+		if err := explainBuckets(path, copts, enc, fig.Collisions.Crowded, int64(of.indexBase), explainOut); err != nil {
 			return err
 		}
 	}
@@ -144,16 +144,12 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 
 // explainBuckets reads the corpus again and names the keys that share the
 // crowded buckets, writing them to out when it is not empty.
-func explainBuckets(path string, copts corpus.Options, s *spec.Spec, crowded []report.CrowdedBucket, base int64, out string) error {
-	a, err := s.Content.Analysis()
-	if err != nil {
-		return err
-	}
+func explainBuckets(path string, copts corpus.Options, enc *encode.Encoder, crowded []report.CrowdedBucket, base int64, out string) error {
 	buckets := make([]uint64, len(crowded))
 	for i, b := range crowded {
 		buckets[i] = uint64(b.Column - base)
 	}
-	bk := a.NewBucketKeys(*s.Content.Hashing, buckets, 1000)
+	bk := enc.NewBucketKeys(buckets, 1000)
 	copts.StrictUTF8 = false
 	r, err := openCorpus(path, copts)
 	if err != nil {

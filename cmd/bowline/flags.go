@@ -246,13 +246,13 @@ func specSetting(name string, c *spec.Content) string {
 	t := c.Tokens
 	switch name {
 	case "case":
-		return "case " + t.Case
+		return "case " + t.Case.String()
 	case "unicode":
-		return "unicode " + t.Unicode
+		return "unicode " + t.Unicode.String()
 	case "accents":
-		return "accents " + t.Accents
+		return "accents " + t.Accents.String()
 	case "numbers":
-		return "numbers " + t.Numbers
+		return "numbers " + t.Numbers.String()
 	case "min-len", "max-len":
 		return fmt.Sprintf("token length %d-%d", t.MinLen, t.MaxLen)
 	case "stop", "drop-negations":
@@ -269,14 +269,14 @@ func specSetting(name string, c *spec.Content) string {
 	case "words", "chars":
 		return "words " + c.NGrams.Words + ", chars " + c.NGrams.Chars
 	case "tf", "idf", "norm":
-		return "tf " + c.Weights.TF + ", idf " + c.Weights.IDF + ", norm " + c.Weights.Norm
+		return "tf " + c.Weights.TF.String() + ", idf " + c.Weights.IDF.String() + ", norm " + c.Weights.Norm.String()
 	case "category", "number", "time", "missing-value", "time-zone":
 		if len(c.Fields) == 0 {
 			return "no table fields"
 		}
 		var parts []string
 		for _, f := range c.Fields {
-			d := f.Kind + " " + f.Name
+			d := string(f.Kind) + " " + f.Name
 			switch {
 			case f.Number != nil:
 				var tr []string

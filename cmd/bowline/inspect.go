@@ -9,8 +9,10 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/internal/cli"
+	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
+	"github.com/bowline/bowline/weight"
 )
 
 func runInspect(args []string, stdout, stderr io.Writer) error {
@@ -57,7 +59,7 @@ type inspectView struct {
 	Parent      string       `json:"parent,omitempty"`
 	Tool        string       `json:"tool"`
 	Schema      int          `json:"schema"`
-	Mode        string       `json:"mode"`
+	Mode        spec.Mode    `json:"mode"`
 	Columns     int64        `json:"columns"`
 	Docs        int64        `json:"docs"`
 	Settings    settingsView `json:"settings"`
@@ -85,14 +87,14 @@ type stopView struct {
 }
 
 type weightsView struct {
-	TF   string `json:"tf"`
-	IDF  string `json:"idf"`
-	Norm string `json:"norm"`
+	TF   weight.TF   `json:"tf"`
+	IDF  weight.IDF  `json:"idf"`
+	Norm weight.Norm `json:"norm"`
 }
 
 type labelsView struct {
-	Kind string   `json:"kind"`
-	Map  []string `json:"map,omitempty"` // label Map[i] is written as i+1
+	Kind spec.LabelKind `json:"kind"`
+	Map  []string       `json:"map,omitempty"` // label Map[i] is written as i+1
 }
 
 type vocabView struct {
@@ -100,7 +102,7 @@ type vocabView struct {
 	MinDocs     int64         `json:"min_docs"`
 	MaxDocShare float64       `json:"max_doc_share"`
 	MaxTerms    int           `json:"max_terms"`
-	Unseen      string        `json:"unseen"`
+	Unseen      vocab.Unseen  `json:"unseen"`
 	ParentKeys  int           `json:"parent_keys"`
 	Appended    int           `json:"appended"`
 	Retired     int           `json:"retired"`
@@ -209,7 +211,7 @@ func inspectSpec(s *spec.Spec, top int) *inspectView {
 		if v.Seen != nil {
 			seen = seenPer[k]
 		}
-		vv.ByOrder = append(vv.ByOrder, orderView{Order: spec.OrderLabel(k), Kept: per[k], Seen: seen})
+		vv.ByOrder = append(vv.ByOrder, orderView{Order: ngram.Order(k).String(), Kept: per[k], Seen: seen})
 	}
 	// Top terms by document count (an extended spec's columns are not in
 	// that order), ties by key bytes.
@@ -454,5 +456,5 @@ func describeTableField(f *spec.TableField) string {
 	case f.Time != nil:
 		return fmt.Sprintf("%s: time, layout %q in %s; hour, day of week, day of year (sin, cos) + missing", f.Name, f.Time.Layout, f.Time.Zone)
 	}
-	return f.Name + ": " + f.Kind
+	return f.Name + ": " + string(f.Kind)
 }

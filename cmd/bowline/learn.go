@@ -5,15 +5,16 @@ import (
 	"io"
 	"os"
 	"runtime/debug"
-	"strings"
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
+	"github.com/bowline/bowline/vocab"
 )
 
 type outputFlags struct {
@@ -98,7 +99,7 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	if st.Mode == spec.ModeHashing && of.featureMap != "" {
 		return cli.Usagef("--feature-map: hashing mode stores no feature strings, so there is no map to write")
 	}
-	var learner *spec.Learner
+	var learner *learn.Learner
 	if old != nil {
 		if err := checkExtendFlags(old, lf.extend, st, c.Given); err != nil {
 			return err
@@ -114,11 +115,11 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		if ov != nil && !c.Given["max-terms"] {
 			cut.MaxTerms = ov.MaxTerms
 		}
-		learner, err = spec.NewExtendLearner(old, cut, cli.SpecInput(copts))
+		learner, err = learn.NewExtend(old, cut, cli.SpecInput(copts))
 		if err != nil {
 			return cli.Usagef("--extend %s: %v", lf.extend, err)
 		}
-	} else if learner, err = spec.NewLearner(st); err != nil {
+	} else if learner, err = learn.New(st); err != nil {
 		return cli.Usagef("%v", err)
 	}
 	if lf.limit > 0 {
@@ -285,12 +286,11 @@ func writeFeatureMap(path string, s *spec.Spec, base int) error {
 	for i, k := range v.Keys {
 		entries[i] = svmlight.MapEntry{Index: i, Feature: k, Docs: v.DocCounts[i]}
 	}
-	if u := v.Unseen; u != "drop" {
+	if u := v.Unseen; u.Mode != vocab.UnseenDrop {
 		n := len(v.Keys)
-		cols := int(s.Columns()) - n - len(s.Content.FieldColumns())
-		for j := 0; j < cols; j++ {
+		for j := 0; j < u.Columns(); j++ {
 			name := "(unseen)"
-			if strings.HasPrefix(u, "hash:") {
+			if u.Mode == vocab.UnseenHash {
 				name = fmt.Sprintf("(unseen bucket %d)", j)
 			}
 			entries = append(entries, svmlight.MapEntry{Index: n + j, Feature: name, Docs: 0})

@@ -178,7 +178,7 @@ func exitCode(err error, stderr io.Writer) int {
 	case errors.As(err, &u):
 		return exitUsage
 	case errors.As(err, &le):
-		if le.Reason == "unreadable" {
+		if errors.Is(le.Reason, spec.ErrUnreadable) {
 			return exitIO
 		}
 		return exitSpec

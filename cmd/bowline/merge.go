@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/internal/cli"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 )
@@ -63,7 +64,7 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	if err := distinctShards(c.Args); err != nil {
 		return err
 	}
-	sh, err := spec.MergeShards(c.Args)
+	sh, err := learn.MergeShards(c.Args)
 	if err != nil {
 		return err
 	}
@@ -128,7 +129,7 @@ var extendFlagFields = []struct{ flag, field string }{
 
 // checkExtendFlags refuses analysis flags that contradict the spec being
 // extended, naming the flag.
-func checkExtendFlags(old *spec.Spec, oldPath string, st *spec.Settings, set map[string]bool) error {
+func checkExtendFlags(old *spec.Spec, oldPath string, st *learn.Settings, set map[string]bool) error {
 	for _, f := range []string{"hash", "seed", "signed"} {
 		if set[f] {
 			return cli.Usagef("--%s: --extend keeps the vocabulary mode of %s; hashing specs cannot be extended", f, oldPath)
@@ -154,7 +155,7 @@ func checkExtendFlags(old *spec.Spec, oldPath string, st *spec.Settings, set map
 }
 
 // describeExtension prints the refresh account of learn --extend.
-func describeExtension(w io.Writer, x *spec.Extension, oldPath string) {
+func describeExtension(w io.Writer, x *learn.Extension, oldPath string) {
 	fmt.Fprintf(w, "\nextends      %s (%s)\n", oldPath, strings.TrimPrefix(x.Parent, "sha256:")[:12])
 	fmt.Fprintf(w, "columns      %d from the parent at their index: %d kept, %d retired (now below the cutoffs)", x.ParentKeys, x.Kept, x.Retired)
 	if x.Revived > 0 {

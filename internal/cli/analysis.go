@@ -8,6 +8,8 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
@@ -41,12 +43,15 @@ type AnalysisFlags struct {
 }
 
 // tableArg is one --category, --number or --time argument.
-type tableArg struct{ kind, arg string }
+type tableArg struct {
+	kind spec.FieldKind
+	arg  string
+}
 
 // tableFlag appends its arguments, with their kind, to one shared list,
 // so that the table fields keep the order of the command line.
 type tableFlag struct {
-	kind string
+	kind spec.FieldKind
 	list *[]tableArg
 }
 
@@ -103,19 +108,19 @@ func (f *AnalysisFlags) tableFields(set map[string]bool) ([]spec.TableField, err
 		return nil, nil
 	}
 	var out []spec.TableField
-	seen := map[string]string{}
+	seen := map[string]spec.FieldKind{}
 	hasNumber, hasTime := false, false
 	for _, a := range f.table {
 		var tf spec.TableField
 		var err error
 		switch a.kind {
 		case spec.KindCategory:
-			tf, err = spec.ParseCategory(a.arg)
+			tf, err = tablefield.ParseCategory(a.arg)
 		case spec.KindNumber:
-			tf, err = spec.ParseNumber(a.arg, f.Missing)
+			tf, err = tablefield.ParseNumber(a.arg, f.Missing)
 			hasNumber = true
 		case spec.KindTime:
-			tf, err = spec.ParseTime(a.arg, f.TimeZone)
+			tf, err = tablefield.ParseTime(a.arg, f.TimeZone)
 			hasTime = true
 		}
 		if err != nil {
@@ -139,8 +144,8 @@ func (f *AnalysisFlags) tableFields(set map[string]bool) ([]spec.TableField, err
 // Settings validates the flags before any work starts and returns the
 // spec settings for a corpus read as in; set holds the names of the flags
 // given. Every error is a *UsageError naming the flag.
-func (f *AnalysisFlags) Settings(in spec.Input, set map[string]bool) (*spec.Settings, error) {
-	s := &spec.Settings{Input: in, KeepNegations: !f.DropNegations}
+func (f *AnalysisFlags) Settings(in spec.Input, set map[string]bool) (*learn.Settings, error) {
+	s := &learn.Settings{Input: in, KeepNegations: !f.DropNegations}
 	var err error
 	wrap := func(flag string, err error) error { return Usagef("--%s: %v", flag, err) }
 	o := tokenize.DefaultOptions()

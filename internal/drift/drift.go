@@ -12,7 +12,10 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
@@ -219,11 +222,11 @@ type LabelShare struct {
 // number of distinct unseen keys in the corpus.
 func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 	c := &s.Content
-	an, err := c.Analysis()
+	an, err := analysis.New(c)
 	if err != nil {
 		return nil, fmt.Errorf("drift: %w", err)
 	}
-	res := &Result{Spec: s.Fingerprint, Input: o.Name, Mode: c.Mode, TrainingDocs: c.Docs, Curves: pipeline.Curves(s)}
+	res := &Result{Spec: s.Fingerprint, Input: o.Name, Mode: string(c.Mode), TrainingDocs: c.Docs, Curves: pipeline.Curves(s)}
 	top := o.Top
 	if top <= 0 {
 		top = DefaultTop
@@ -263,7 +266,7 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 			}
 		}(w)
 	}
-	fobs, err := spec.NewFieldObserver(s)
+	fobs, err := encode.NewFieldObserver(s)
 	if err != nil {
 		return nil, fmt.Errorf("drift: %w", err)
 	}
@@ -445,7 +448,7 @@ type unseenStat struct {
 // worker gathers the counts of the documents one goroutine sees.
 type worker struct {
 	sh     *shared
-	an     *spec.Analyzer
+	an     *analysis.Analyzer
 	serial int64 // documents seen, the current one included
 	empty  int64
 	n      int // features of the current document
@@ -461,10 +464,10 @@ type worker struct {
 	bdocs      map[uint64]int64            // per bucket: documents
 	docBuckets []uint64
 	newFeat    int64 // features in buckets without training keys
-	emit       func(key []byte, code int)
+	emit       func(key []byte, o ngram.Order)
 }
 
-func newWorker(sh *shared, an *spec.Analyzer) *worker {
+func newWorker(sh *shared, an *analysis.Analyzer) *worker {
 	w := &worker{sh: sh, an: an}
 	if sh.vocab != nil {
 		n := sh.vocab.Len()
@@ -499,7 +502,8 @@ func (w *worker) doc(texts [][]byte) {
 	}
 }
 
-func (w *worker) emitVocab(key []byte, code int) {
+func (w *worker) emitVocab(key []byte, o ngram.Order) {
+	code := int(o)
 	w.n++
 	if i, ok := w.sh.vocab.Lookup(key); ok {
 		w.count[i]++
@@ -521,7 +525,8 @@ func (w *worker) emitVocab(key []byte, code int) {
 	}
 }
 
-func (w *worker) emitHash(key []byte, code int) {
+func (w *worker) emitHash(key []byte, o ngram.Order) {
+	code := int(o)
 	w.n++
 	sum := w.hasher.Sum(key)
 	w.features[code]++
@@ -625,7 +630,7 @@ func vocabFigures(res *Result, c *spec.Content, w *worker, top int) {
 		a.train = append(a.train, 0)
 		a.now = append(a.now, float64(a.unseenDocs))
 		res.ByOrder = append(res.ByOrder, Order{
-			Order: spec.OrderLabel(code), Features: o.Features, Keys: o.Keys, OOV: &o,
+			Order: ngram.Order(code).String(), Features: o.Features, Keys: o.Keys, OOV: &o,
 			Columns: a.columns, ColumnsSeen: a.columnsSeen,
 			JSD: finite(JSD(a.train, a.now)), PSI: finite(PSI(a.train, a.now)),
 		})
@@ -637,7 +642,7 @@ func vocabFigures(res *Result, c *spec.Content, w *worker, top int) {
 	// Top unseen keys.
 	us := make([]Unseen, 0, len(w.unseen))
 	for k, u := range w.unseen {
-		us = append(us, Unseen{Key: k, Order: spec.OrderLabel(u.code), Count: u.count, Docs: u.docs})
+		us = append(us, Unseen{Key: k, Order: ngram.Order(u.code).String(), Count: u.count, Docs: u.docs})
 	}
 	sort.Slice(us, func(i, j int) bool {
 		if us[i].Count != us[j].Count {
@@ -650,7 +655,7 @@ func vocabFigures(res *Result, c *spec.Content, w *worker, top int) {
 	// Keys whose document share moved most.
 	ms := make([]Moved, len(v.Keys))
 	for i, k := range v.Keys {
-		m := Moved{Key: k, Order: spec.OrderLabel(v.Orders[i]), TrainingDocs: v.DocCounts[i], Docs: w.docs[i],
+		m := Moved{Key: k, Order: ngram.Order(v.Orders[i]).String(), TrainingDocs: v.DocCounts[i], Docs: w.docs[i],
 			TrainingShare: ratio(v.DocCounts[i], c.Docs), Share: ratio(w.docs[i], res.Docs)}
 		m.Change = m.Share - m.TrainingShare
 		ms[i] = m
@@ -675,7 +680,7 @@ func hashFigures(res *Result, c *spec.Content, sh *shared, w *worker) {
 	}
 	sortCodes(codes)
 	for _, code := range codes {
-		res.ByOrder = append(res.ByOrder, Order{Order: spec.OrderLabel(code), Features: w.features[code], Keys: int64(len(w.keys[code]))})
+		res.ByOrder = append(res.ByOrder, Order{Order: ngram.Order(code).String(), Features: w.features[code], Keys: int64(len(w.keys[code]))})
 		res.Features += w.features[code]
 	}
 	b := &Buckets{Width: c.Hashing.Width, Occupied: int64(len(w.bdocs)), TrainingCounts: sh.trainOK}
@@ -712,8 +717,8 @@ func hashFigures(res *Result, c *spec.Content, sh *shared, w *worker) {
 // each count by recomputing the stored idf from it. ok is false when the
 // spec has no idf table or a value does not invert exactly.
 func trainingBuckets(c *spec.Content) (map[uint64]int64, bool) {
-	mode, err := weight.ParseIDF(c.Weights.IDF)
-	if err != nil || mode == weight.IDFNone || len(c.Weights.IDFBuckets) != len(c.Weights.IDFBucketValues) {
+	mode := c.Weights.IDF
+	if mode == weight.IDFNone || len(c.Weights.IDFBuckets) != len(c.Weights.IDFBucketValues) {
 		return nil, false
 	}
 	n := c.Docs

@@ -6,13 +6,15 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/weight"
 )
 
 var linesInput = spec.Input{Format: "lines", Text: []string{"line"}}
 
-func wordsOnly(t testing.TB, st *spec.Settings) *spec.Settings {
+func wordsOnly(t testing.TB, st *learn.Settings) *learn.Settings {
 	t.Helper()
 	st.NGrams.Words.Max = 1
 	return st
@@ -24,7 +26,7 @@ func wordsOnly(t testing.TB, st *spec.Settings) *spec.Settings {
 // bins.
 func TestHandComputed(t *testing.T) {
 	train := []byte("red bike\nred dock\nblue bike\nbike\n")
-	s := learn(t, train, wordsOnly(t, settings(t, linesInput, 1, weight.IDFNone)))
+	s := learnSpec(t, train, wordsOnly(t, settings(t, linesInput, 1, weight.IDFNone)))
 	// Vocabulary: bike (3 docs), red (2), blue (1), dock (1); N = 4.
 	res := compare(t, s, []byte("red bike bike\ngreen bike\n"), 2)
 	// Features: red bike bike green bike = 5, unseen: green = 1.
@@ -82,7 +84,7 @@ func TestHandComputed(t *testing.T) {
 // (Lin 1991: JSD is 0 exactly when the distributions are equal; PSI too).
 func TestTrainingAgainstItself(t *testing.T) {
 	train, _ := demoSplit(t, 600)
-	s := learn(t, train, settings(t, tsvInput, 1, weight.IDFNone))
+	s := learnSpec(t, train, settings(t, tsvInput, 1, weight.IDFNone))
 	res := compare(t, s, train, 3)
 	if res.Docs != s.Content.Docs {
 		t.Errorf("docs = %d, spec says %d", res.Docs, s.Content.Docs)
@@ -112,7 +114,7 @@ func TestTrainingAgainstItself(t *testing.T) {
 // labels and the word distribution more than the held-out split does.
 func TestHeldOutAndShift(t *testing.T) {
 	train, test := demoSplit(t, 2000)
-	s := learn(t, train, settings(t, tsvInput, 2, weight.IDFSmooth))
+	s := learnSpec(t, train, settings(t, tsvInput, 2, weight.IDFSmooth))
 	held := compare(t, s, test, 2)
 	if held.OOV.TokenShare <= 0 || held.OOV.TypeShare <= held.OOV.TokenShare {
 		t.Errorf("held-out OOV = %+v: want a positive token share below the type share", *held.OOV)
@@ -155,7 +157,7 @@ func TestWorkersDeterministic(t *testing.T) {
 		if hash {
 			hashSettings(st, 1<<12)
 		}
-		s := learn(t, train, st)
+		s := learnSpec(t, train, st)
 		var first []byte
 		for _, w := range []int{1, 2, 5} {
 			var buf bytes.Buffer
@@ -179,7 +181,7 @@ func TestWorkersDeterministic(t *testing.T) {
 func TestHashing(t *testing.T) {
 	train, test := demoSplit(t, 1000)
 	for _, idf := range []weight.IDF{weight.IDFSmooth, weight.IDFPlain} {
-		s := learn(t, train, hashSettings(settings(t, tsvInput, 1, idf), 1<<14))
+		s := learnSpec(t, train, hashSettings(settings(t, tsvInput, 1, idf), 1<<14))
 		self := compare(t, s, train, 2)
 		b := self.Buckets
 		if self.OOV != nil || !b.TrainingCounts || b.TrainingBuckets != int64(len(s.Content.Weights.IDFBuckets)) {
@@ -189,7 +191,7 @@ func TestHashing(t *testing.T) {
 			t.Errorf("idf %v: training against itself: %+v, JSD %s", idf, *b, div(b.JSD))
 		}
 		held := compare(t, s, test, 2)
-		vs := learn(t, train, settings(t, tsvInput, 1, weight.IDFNone))
+		vs := learnSpec(t, train, settings(t, tsvInput, 1, weight.IDFNone))
 		vheld := compare(t, vs, test, 2)
 		if hb := held.Buckets; hb.NewBucketShare <= 0 || hb.NewBucketShare > vheld.OOV.TokenShare || *hb.JSD <= 0 {
 			t.Errorf("idf %v: held-out new-bucket share %g, vocabulary OOV %g, JSD %s", idf, hb.NewBucketShare, vheld.OOV.TokenShare, div(hb.JSD))
@@ -198,7 +200,7 @@ func TestHashing(t *testing.T) {
 			t.Errorf("features: hashing %d, vocabulary %d", held.Features, vheld.Features)
 		}
 	}
-	s := learn(t, train, hashSettings(settings(t, tsvInput, 1, weight.IDFNone), 1<<14))
+	s := learnSpec(t, train, hashSettings(settings(t, tsvInput, 1, weight.IDFNone), 1<<14))
 	res := compare(t, s, test, 2)
 	if res.Buckets.TrainingCounts || res.Buckets.JSD != nil || res.Buckets.Occupied == 0 || len(res.Notes) < 2 {
 		t.Errorf("no idf: buckets %+v, notes %q", *res.Buckets, res.Notes)
@@ -214,7 +216,7 @@ func TestHashing(t *testing.T) {
 // HTML page is self-contained with its plots.
 func TestRenderings(t *testing.T) {
 	train, test := demoSplit(t, 500)
-	s := learn(t, train, settings(t, tsvInput, 2, weight.IDFNone))
+	s := learnSpec(t, train, settings(t, tsvInput, 2, weight.IDFNone))
 	res := compare(t, s, test, 2)
 	var js bytes.Buffer
 	if err := res.Write(&js, "json"); err != nil {
@@ -257,8 +259,8 @@ func TestRenderings(t *testing.T) {
 // known, or already counted as unseen, allocates nothing once warm.
 func TestNoAllocationPerDocument(t *testing.T) {
 	train := []byte("red bike\nred dock\nblue bike\n")
-	s := learn(t, train, settings(t, linesInput, 1, weight.IDFNone))
-	an, err := s.Content.Analysis()
+	s := learnSpec(t, train, settings(t, linesInput, 1, weight.IDFNone))
+	an, err := analysis.New(&s.Content)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -280,7 +282,7 @@ func TestNoAllocationPerDocument(t *testing.T) {
 
 func BenchmarkCompare(b *testing.B) {
 	train, test := demoSplit(b, 2000)
-	s := learn(b, train, settings(b, tsvInput, 2, weight.IDFNone))
+	s := learnSpec(b, train, settings(b, tsvInput, 2, weight.IDFNone))
 	b.SetBytes(int64(len(test)))
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {

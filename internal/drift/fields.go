@@ -7,13 +7,13 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/internal/pipeline"
-	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/internal/tablefield"
 )
 
 // observeFields passes a record's table-field values to the observer; a
 // value that cannot be read is a *pipeline.RecordError naming file and
 // line.
-func observeFields(o *spec.FieldObserver, rec *corpus.Record, n int, name string) error {
+func observeFields(o *tablefield.Observer, rec *corpus.Record, n int, name string) error {
 	if n == 0 {
 		return nil
 	}
@@ -27,7 +27,7 @@ func observeFields(o *spec.FieldObserver, rec *corpus.Record, n int, name string
 }
 
 func isFieldError(err error) bool {
-	var fe *spec.FieldError
+	var fe *tablefield.ValueError
 	return errors.As(err, &fe)
 }
 

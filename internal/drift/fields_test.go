@@ -7,7 +7,9 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
@@ -27,12 +29,12 @@ func fieldReader(t *testing.T, data string) *corpus.Reader {
 // TestFieldDrift compares an invented table with a spec learned on
 // another: every figure below is computed by hand.
 func TestFieldDrift(t *testing.T) {
-	zone, _ := spec.ParseCategory("zone")
-	age, _ := spec.ParseNumber("age", nil)
-	st := &spec.Settings{Input: spec.Input{Format: "tsv", Text: []string{"text"}}, Tokens: tokenize.DefaultOptions(),
+	zone, _ := tablefield.ParseCategory("zone")
+	age, _ := tablefield.ParseNumber("age", nil)
+	st := &learn.Settings{Input: spec.Input{Format: "tsv", Text: []string{"text"}}, Tokens: tokenize.DefaultOptions(),
 		NGrams: ngram.Config{Words: ngram.Range{Min: 1, Max: 1}}, Mode: spec.ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(),
 		TF: weight.TFCount, Norm: weight.NormNone, Fields: []spec.TableField{zone, age}}
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -7,6 +7,7 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
@@ -20,9 +21,9 @@ var tsvInput = spec.Input{Format: "tsv", Text: []string{"text"}, Label: "team", 
 
 // settings returns vocabulary settings: words 1-2, no stop list, the given
 // --min-docs, and the given idf.
-func settings(t testing.TB, in spec.Input, minDocs int64, idf weight.IDF) *spec.Settings {
+func settings(t testing.TB, in spec.Input, minDocs int64, idf weight.IDF) *learn.Settings {
 	t.Helper()
-	st := &spec.Settings{Input: in, Tokens: tokenize.DefaultOptions(), KeepNegations: true, Mode: spec.ModeVocabulary}
+	st := &learn.Settings{Input: in, Tokens: tokenize.DefaultOptions(), KeepNegations: true, Mode: spec.ModeVocabulary}
 	var err error
 	if st.NGrams.Words, err = ngram.ParseWords("1-2"); err != nil {
 		t.Fatal(err)
@@ -36,7 +37,7 @@ func settings(t testing.TB, in spec.Input, minDocs int64, idf weight.IDF) *spec.
 }
 
 // hashSettings switches st to hashing mode with width buckets.
-func hashSettings(st *spec.Settings, width uint64) *spec.Settings {
+func hashSettings(st *learn.Settings, width uint64) *learn.Settings {
 	st.Mode = spec.ModeHashing
 	st.Cutoffs = vocab.Cutoffs{}
 	st.Hashing = spec.Hashing{Width: width, Seed: 3}
@@ -60,9 +61,9 @@ func open(t testing.TB, data []byte, in spec.Input) *corpus.Reader {
 	return r
 }
 
-func learn(t testing.TB, data []byte, st *spec.Settings) *spec.Spec {
+func learnSpec(t testing.TB, data []byte, st *learn.Settings) *spec.Spec {
 	t.Helper()
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}

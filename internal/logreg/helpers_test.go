@@ -11,6 +11,8 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/logreg"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
@@ -82,7 +84,7 @@ func encodeWith(t testing.TB, train, test []byte, label string, minDocs int64, f
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := &spec.Settings{
+	st := &learn.Settings{
 		Input:         spec.Input{Format: format, Text: []string{"text"}, Label: label},
 		Tokens:        tokenize.DefaultOptions(),
 		StopSources:   []string{"en"},
@@ -95,7 +97,7 @@ func encodeWith(t testing.TB, train, test []byte, label string, minDocs int64, f
 		IDF:           weight.IDFNone,
 		Norm:          weight.NormL2,
 	}
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -108,7 +110,7 @@ func encodeWith(t testing.TB, train, test []byte, label string, minDocs int64, f
 	if err != nil {
 		t.Fatal(err)
 	}
-	enc, err := spec.NewEncoder(s)
+	enc, err := encode.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -12,6 +12,10 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/tablefield"
+	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
@@ -48,7 +52,7 @@ type EncodeOptions struct {
 // Encode applies enc to every record of r and writes one SVMlight row per
 // record, in input order, to out. Rows are byte-identical whatever the
 // worker count.
-func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions) (*report.Figures, error) {
+func Encode(r *corpus.Reader, enc *encode.Encoder, out io.Writer, o EncodeOptions) (*report.Figures, error) {
 	start := time.Now()
 	nw := workerCount(o.Workers)
 	if o.Base != 0 && o.Base != 1 {
@@ -107,7 +111,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	// and the commit, which cannot be parallel, inserts little more than
 	// the distinct keys.
 	var tally *hashing.Tally
-	workers := make([]*spec.Worker, nw)
+	workers := make([]*encode.Worker, nw)
 	for i := range workers {
 		workers[i] = enc.NewWorker(true)
 		if workers[i].Stats.Tally != nil {
@@ -162,7 +166,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	var wg sync.WaitGroup
 	for _, w := range workers {
 		wg.Add(1)
-		go func(w *spec.Worker) {
+		go func(w *encode.Worker) {
 			defer wg.Done()
 			var row weight.Row
 			for {
@@ -203,7 +207,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	if tally != nil {
 		ws.Tally = tally
 	}
-	var as spec.AnalyzerStats
+	var as analysis.Stats
 	var dropped []countPair
 	for _, w := range workers {
 		s := w.Analyzer().Stats()
@@ -220,7 +224,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 		Command: "encode",
 		Input:   o.Name,
 		Spec:    s.Fingerprint,
-		Mode:    s.Content.Mode,
+		Mode:    string(s.Content.Mode),
 		Docs:    rows,
 	}
 	if o.Rejects != nil {
@@ -251,7 +255,7 @@ func Encode(r *corpus.Reader, enc *spec.Encoder, out io.Writer, o EncodeOptions)
 	return fig, nil
 }
 
-func encodeBatch(w *spec.Worker, enc *spec.Encoder, b *batch, row *weight.Row, o EncodeOptions, ntext int) {
+func encodeBatch(w *encode.Worker, enc *encode.Encoder, b *batch, row *weight.Row, o EncodeOptions, ntext int) {
 	b.out = b.out[:0]
 	b.st.labelRows = map[float64]int64{}
 	for i, fields := range b.texts {
@@ -351,7 +355,7 @@ func topCounts(pairs []countPair, n int) []report.Count {
 	return out
 }
 
-func fillTokenFigures(fig *report.Figures, as spec.AnalyzerStats, dropped []countPair, features []int64) {
+func fillTokenFigures(fig *report.Figures, as analysis.Stats, dropped []countPair, features []int64) {
 	fig.Tokens = as.Tokenizer.Tokens
 	fig.StopDropped = as.StopDropped
 	if fig.Tokens > 0 {
@@ -400,16 +404,16 @@ func share(a, b int64) float64 {
 	return float64(a) / float64(b)
 }
 
-func oovFigures(ws *spec.WorkerStats, top int) *report.OOV {
+func oovFigures(ws *encode.Stats, top int) *report.OOV {
 	o := &report.OOV{}
-	for _, code := range ws.Codes() {
+	for _, code := range ws.Orders() {
 		f, u := ws.Features[code], ws.Unseen[code]
 		k, uk := ws.Keys(code)
 		o.Features += f
 		o.Unseen += u
 		o.Keys += k
 		o.UnseenKeys += uk
-		o.ByOrder = append(o.ByOrder, report.OrderOOV{Order: spec.OrderLabel(code), Features: f, Unseen: u,
+		o.ByOrder = append(o.ByOrder, report.OrderOOV{Order: ngram.Order(code).String(), Features: f, Unseen: u,
 			Keys: k, UnseenKeys: uk, TokenShare: share(u, f), TypeShare: share(uk, k)})
 	}
 	o.TokenShare = share(o.Unseen, o.Features)
@@ -476,7 +480,7 @@ func observeFields(name string, rec *corpus.Record, n int, observe func([][]byte
 		return nil
 	}
 	if err := observe(rec.Fields); err != nil {
-		var fe *spec.FieldError
+		var fe *tablefield.ValueError
 		if errors.As(err, &fe) {
 			return &RecordError{File: name, Line: rec.Line, Err: err}
 		}
@@ -487,14 +491,14 @@ func observeFields(name string, rec *corpus.Record, n int, observe func([][]byte
 
 // FieldFigures turns the table-field figures of a run into report form,
 // next to the numbers frozen in c. stats holds one entry per field of c.
-func FieldFigures(c *spec.Content, stats []spec.FieldStat) []report.FieldFigures {
+func FieldFigures(c *spec.Content, stats []tablefield.Stat) []report.FieldFigures {
 	if len(c.Fields) == 0 || len(stats) != len(c.Fields) {
 		return nil
 	}
 	out := make([]report.FieldFigures, len(stats))
 	for i, st := range stats {
 		f := &c.Fields[i]
-		ff := report.FieldFigures{Name: f.Name, Kind: f.Kind, Docs: st.Docs, Missing: st.Missing, MissingShare: share(st.Missing, st.Docs)}
+		ff := report.FieldFigures{Name: f.Name, Kind: string(f.Kind), Docs: st.Docs, Missing: st.Missing, MissingShare: share(st.Missing, st.Docs)}
 		switch f.Kind {
 		case spec.KindCategory:
 			if c.Mode != spec.ModeVocabulary {

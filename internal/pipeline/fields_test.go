@@ -7,17 +7,20 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 )
 
 var tableOpts = corpus.Options{Format: corpus.TSV, Text: []string{"text"}, Label: "team", ID: "id", Fields: []string{"zone", "age", "created"}}
 
-func tableSpecSettings(t testing.TB, mode string) *spec.Settings {
+func tableSpecSettings(t testing.TB, mode spec.Mode) *learn.Settings {
 	st := settings(mode)
-	zone, _ := spec.ParseCategory("zone")
-	age, _ := spec.ParseNumber("age:log,standard", []string{"unknown"})
-	created, err := spec.ParseTime("created", "Europe/Oslo")
+	zone, _ := tablefield.ParseCategory("zone")
+	age, _ := tablefield.ParseNumber("age:log,standard", []string{"unknown"})
+	created, err := tablefield.ParseTime("created", "Europe/Oslo")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -30,10 +33,10 @@ func tableSpecSettings(t testing.TB, mode string) *spec.Settings {
 // summed in input order on the reading goroutine).
 func TestTableFieldsAcrossWorkers(t *testing.T) {
 	train, test := demoCorpus(t, 1500)
-	for _, mode := range []string{spec.ModeVocabulary, spec.ModeHashing} {
+	for _, mode := range []spec.Mode{spec.ModeVocabulary, spec.ModeHashing} {
 		var first, firstRows, firstFig string
 		for _, w := range []int{1, 2, 5} {
-			l, err := spec.NewLearner(tableSpecSettings(t, mode))
+			l, err := learn.New(tableSpecSettings(t, mode))
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -45,7 +48,7 @@ func TestTableFieldsAcrossWorkers(t *testing.T) {
 			if len(lfig.Fields) != 3 || lfig.Fields[1].Number == nil || lfig.Fields[1].Number.Mean != lfig.Fields[1].Number.FrozenMean {
 				t.Fatalf("learn figures %+v", lfig.Fields)
 			}
-			enc, _ := spec.NewEncoder(s)
+			enc, _ := encode.New(s)
 			r, _ = corpus.NewReader(bytes.NewReader(test), "test.tsv", tableOpts)
 			var out bytes.Buffer
 			fig, err := Encode(r, enc, &out, EncodeOptions{Workers: w})
@@ -69,7 +72,7 @@ func TestTableFieldsAcrossWorkers(t *testing.T) {
 // table fields is refused, not silently read as missing values.
 func TestTableFieldsReaderMismatch(t *testing.T) {
 	train, _ := demoCorpus(t, 100)
-	l, _ := spec.NewLearner(tableSpecSettings(t, spec.ModeVocabulary))
+	l, _ := learn.New(tableSpecSettings(t, spec.ModeVocabulary))
 	_, _, err := Learn(reader(t, train), l, LearnOptions{Workers: 1})
 	var re *RecordError
 	if err == nil || errors.As(err, &re) {

@@ -8,6 +8,9 @@ import (
 	"time"
 
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
@@ -34,33 +37,33 @@ const maxLabels = 100000
 // Learn counts every record of r with l and returns the sealed spec and the
 // run's figures.
 //
-// When l has a key limit (spec.Learner.LimitKeys), each batch of records is
+// When l has a key limit (learn.Learner.LimitKeys), each batch of records is
 // counted exactly by one worker and the batches' counts are merged into the
 // bounded counts in input order, so the pruning, and the spec, are the
 // same for any worker count.
-func Learn(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Spec, *report.Figures, error) {
-	s, _, fig, err := learn(r, l, o, false)
+func Learn(r *corpus.Reader, l *learn.Learner, o LearnOptions) (*spec.Spec, *report.Figures, error) {
+	s, _, fig, err := learnCorpus(r, l, o, false)
 	return s, fig, err
 }
 
 // Count counts every record of r with l like Learn but applies no cutoff:
-// it returns the exact counts as a shard (see spec.Shard), with the run's
+// it returns the exact counts as a shard (see learn.Shard), with the run's
 // figures (no vocabulary figures). l must have no key limit.
-func Count(r *corpus.Reader, l *spec.Learner, o LearnOptions) (*spec.Shard, *report.Figures, error) {
+func Count(r *corpus.Reader, l *learn.Learner, o LearnOptions) (*learn.Shard, *report.Figures, error) {
 	if l.KeyLimit() > 0 {
 		return nil, nil, errors.New("count shards hold exact counts; a key limit would prune them")
 	}
-	_, sh, fig, err := learn(r, l, o, true)
+	_, sh, fig, err := learnCorpus(r, l, o, true)
 	return sh, fig, err
 }
 
 // part is one batch's counts waiting to be merged in order.
 type part struct {
-	w *spec.LearnWorker
+	w *learn.Worker
 	b *batch
 }
 
-func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec.Spec, *spec.Shard, *report.Figures, error) {
+func learnCorpus(r *corpus.Reader, l *learn.Learner, o LearnOptions, shard bool) (*spec.Spec, *learn.Shard, *report.Figures, error) {
 	start := time.Now()
 	nw := workerCount(o.Workers)
 	bounded := l.KeyLimit() > 0
@@ -112,13 +115,13 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 		return ok
 	}
 
-	workers := make([]*spec.LearnWorker, nw)
+	workers := make([]*learn.Worker, nw)
 	var docs, empty, inBytes, emitted int64
 	var mu sync.Mutex
 	var wg sync.WaitGroup
 
 	// With a key limit, batches' counts meet in input order.
-	var total *spec.LearnWorker
+	var total *learn.Worker
 	parts := make(chan part, nw)
 	mergeDone := make(chan struct{})
 	if bounded {
@@ -143,7 +146,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	for i := range workers {
 		workers[i] = l.NewWorker()
 		wg.Add(1)
-		go func(w *spec.LearnWorker) {
+		go func(w *learn.Worker) {
 			defer wg.Done()
 			for {
 				b := <-free
@@ -197,7 +200,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 		labels = append(labels, k)
 	}
 	sort.Strings(labels)
-	lab := spec.LabelsFrom(labels, hasLabel)
+	lab := learn.LabelsFrom(labels, hasLabel)
 	if hasLabel {
 		lab.Values = labels
 		for _, k := range labels {
@@ -205,7 +208,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 		}
 	}
 	var s *spec.Spec
-	var sh *spec.Shard
+	var sh *learn.Shard
 	var cut vocab.CutReport
 	var err error
 	if shard {
@@ -218,7 +221,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 	}
 	elapsed := time.Since(start).Seconds()
 
-	var as spec.AnalyzerStats
+	var as analysis.Stats
 	var dropped []countPair
 	for _, w := range workers {
 		st := w.Analyzer().Stats()
@@ -230,7 +233,7 @@ func learn(r *corpus.Reader, l *spec.Learner, o LearnOptions, shard bool) (*spec
 			}
 		}
 	}
-	fig := &report.Figures{Command: "learn", Input: o.Name, Mode: c.Mode, Docs: docs, EmptyDocs: empty}
+	fig := &report.Figures{Command: "learn", Input: o.Name, Mode: string(c.Mode), Docs: docs, EmptyDocs: empty}
 	if o.Rejects != nil {
 		fig.Rejected = o.Rejects.N
 	}
@@ -278,7 +281,7 @@ func vocabFigures(s *spec.Spec, cut vocab.CutReport, top int) *report.VocabFigur
 	}
 	sort.Ints(codes)
 	for _, k := range codes {
-		vf.ByOrder = append(vf.ByOrder, report.Count{Name: spec.OrderLabel(k), Count: per[k]})
+		vf.ByOrder = append(vf.ByOrder, report.Count{Name: ngram.Order(k).String(), Count: per[k]})
 	}
 	if top == 0 {
 		top = 10

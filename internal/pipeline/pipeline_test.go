@@ -10,7 +10,10 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
@@ -36,9 +39,9 @@ func demoCorpus(t testing.TB, docs int) (train, test []byte) {
 
 var copts = corpus.Options{Format: corpus.TSV, Text: []string{"text"}, Label: "team", ID: "id"}
 
-func settings(mode string) *spec.Settings {
+func settings(mode spec.Mode) *learn.Settings {
 	en, _ := stopwords.Builtin("en")
-	s := &spec.Settings{
+	s := &learn.Settings{
 		Input:  spec.Input{Format: "tsv", Text: copts.Text, Label: copts.Label, ID: copts.ID},
 		Tokens: tokenize.DefaultOptions(), StopSources: []string{"en"}, StopWords: en, KeepNegations: true,
 		NGrams: ngram.Config{Words: ngram.Range{Min: 1, Max: 2}, Chars: ngram.Range{Min: 3, Max: 4}},
@@ -62,9 +65,9 @@ func reader(t testing.TB, data []byte) *corpus.Reader {
 	return r
 }
 
-func learnSpec(t testing.TB, data []byte, mode string, workers int) *spec.Spec {
+func learnSpec(t testing.TB, data []byte, mode spec.Mode, workers int) *spec.Spec {
 	t.Helper()
-	l, err := spec.NewLearner(settings(mode))
+	l, err := learn.New(settings(mode))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -77,7 +80,7 @@ func learnSpec(t testing.TB, data []byte, mode string, workers int) *spec.Spec {
 
 func encodeRows(t testing.TB, s *spec.Spec, data []byte, workers int) ([]byte, *report.Figures) {
 	t.Helper()
-	enc, err := spec.NewEncoder(s)
+	enc, err := encode.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -93,7 +96,7 @@ func encodeRows(t testing.TB, s *spec.Spec, data []byte, workers int) ([]byte, *
 // specs, rows and figures whatever the worker count.
 func TestDeterministicAcrossWorkers(t *testing.T) {
 	train, test := demoCorpus(t, 3000)
-	for _, mode := range []string{spec.ModeVocabulary, spec.ModeHashing} {
+	for _, mode := range []spec.Mode{spec.ModeVocabulary, spec.ModeHashing} {
 		var firstSpec string
 		var firstRows []byte
 		var firstFig string
@@ -162,14 +165,14 @@ func TestCollisionFigures(t *testing.T) {
 	train, test := demoCorpus(t, 1000)
 	s := learnSpec(t, train, spec.ModeHashing, 2)
 	_, fig := encodeRows(t, s, test, 2)
-	a, _ := s.Content.Analysis()
+	a, _ := analysis.New(&s.Content)
 	z := a.NewAnalyzer()
 	h, _ := hashing.New(s.Content.Hashing.Width, s.Content.Hashing.Seed, false)
 	// A plain map of every key's sum, its buckets counted by hand.
 	sums := map[uint64]bool{}
 	r := reader(t, test)
 	for r.Scan() {
-		z.Analyze(r.Record().Text, func(key []byte, _ int) { sums[h.Sum(key)] = true })
+		z.Analyze(r.Record().Text, func(key []byte, _ ngram.Order) { sums[h.Sum(key)] = true })
 	}
 	per := map[uint64]int64{}
 	for sum := range sums {
@@ -194,7 +197,7 @@ func TestLabelErrorNamesRecord(t *testing.T) {
 	train, _ := demoCorpus(t, 300)
 	s := learnSpec(t, train, spec.ModeVocabulary, 1)
 	bad := []byte("id\tteam\ttext\n1\tbikes\tflat tyre\n2\tparking\tno space at the dock\n")
-	enc, _ := spec.NewEncoder(s)
+	enc, _ := encode.New(s)
 	_, err := Encode(reader(t, bad), enc, &bytes.Buffer{}, EncodeOptions{Name: "new.tsv", Workers: 2})
 	var re *RecordError
 	if !errors.As(err, &re) || re.Line != 3 || re.File != "new.tsv" || !strings.Contains(err.Error(), "parking") {
@@ -205,7 +208,7 @@ func TestLabelErrorNamesRecord(t *testing.T) {
 func BenchmarkEncodeHashing(b *testing.B) {
 	train, test := demoCorpus(b, 5000)
 	s := learnSpec(b, train, spec.ModeHashing, 2)
-	enc, _ := spec.NewEncoder(s)
+	enc, _ := encode.New(s)
 	b.SetBytes(int64(len(test)))
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
@@ -239,7 +242,7 @@ func (f *failAfter) Write(p []byte) (int, error) {
 func TestWriteErrorEndsRun(t *testing.T) {
 	train, test := demoCorpus(t, 3000)
 	s := learnSpec(t, train, spec.ModeVocabulary, 2)
-	enc, _ := spec.NewEncoder(s)
+	enc, _ := encode.New(s)
 	for _, w := range []int{1, 2, 4} {
 		for _, n := range []int{0, 100, 50000} {
 			_, err := Encode(reader(t, test), enc, &failAfter{n: n}, EncodeOptions{Workers: w})
@@ -257,7 +260,7 @@ func TestWriteErrorEndsRun(t *testing.T) {
 func TestFirstErrorInInputOrder(t *testing.T) {
 	train, test := demoCorpus(t, 30000)
 	s := learnSpec(t, train, spec.ModeVocabulary, 2)
-	enc, _ := spec.NewEncoder(s)
+	enc, _ := encode.New(s)
 	lines := strings.SplitAfter(string(test), "\n")
 	if len(lines) < 5000 {
 		t.Fatalf("only %d lines", len(lines))

@@ -12,7 +12,7 @@ import (
 
 func benchDocs(b *testing.B, n int) (*bowline.Encoder, []string, []byte) {
 	train, test := demoSplit(b, 2000)
-	enc, err := bowline.New(learn(b, train, "train.tsv", settings(b, demoInput)))
+	enc, err := bowline.New(learnSpec(b, train, "train.tsv", settings(b, demoInput)))
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -10,7 +10,10 @@ import (
 
 	"github.com/bowline/bowline"
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
 )
@@ -18,15 +21,15 @@ import (
 // tableSettings adds the demo's table columns to st: zone and plan as
 // categories, age standardized with "unknown" for missing, created as a
 // time (what "bowline demo" learns with).
-func tableSettings(t *testing.T, st *spec.Settings) *spec.Settings {
+func tableSettings(t *testing.T, st *learn.Settings) *learn.Settings {
 	t.Helper()
-	zone, _ := spec.ParseCategory("zone")
-	plan, _ := spec.ParseCategory("plan")
-	age, err := spec.ParseNumber("age:standard", []string{"unknown"})
+	zone, _ := tablefield.ParseCategory("zone")
+	plan, _ := tablefield.ParseCategory("plan")
+	age, err := tablefield.ParseNumber("age:standard", []string{"unknown"})
 	if err != nil {
 		t.Fatal(err)
 	}
-	created, err := spec.ParseTime("created", "Europe/London")
+	created, err := tablefield.ParseTime("created", "Europe/London")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -34,7 +37,7 @@ func tableSettings(t *testing.T, st *spec.Settings) *spec.Settings {
 	return st
 }
 
-func tableReader(t *testing.T, data []byte, st *spec.Settings) *corpus.Reader {
+func tableReader(t *testing.T, data []byte, st *learn.Settings) *corpus.Reader {
 	t.Helper()
 	var names []string
 	for _, f := range st.Fields {
@@ -54,8 +57,8 @@ func tableReader(t *testing.T, data []byte, st *spec.Settings) *corpus.Reader {
 // "bowline encode" runs), in vocabulary and hashing mode.
 func TestParityTableFields(t *testing.T) {
 	train, test := demoSplit(t, 600)
-	for _, st := range []*spec.Settings{tableSettings(t, settings(t, demoInput)), tableSettings(t, hashSettings(t, settings(t, demoInput), "2^16"))} {
-		l, err := spec.NewLearner(st)
+	for _, st := range []*learn.Settings{tableSettings(t, settings(t, demoInput)), tableSettings(t, hashSettings(t, settings(t, demoInput), "2^16"))} {
+		l, err := learn.New(st)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -63,7 +66,7 @@ func TestParityTableFields(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		senc, _ := spec.NewEncoder(s)
+		senc, _ := encode.New(s)
 		var svm bytes.Buffer
 		if _, err := pipeline.Encode(tableReader(t, test, st), senc, &svm, pipeline.EncodeOptions{Base: 1, Workers: 2}); err != nil {
 			t.Fatal(err)

@@ -14,6 +14,7 @@ import (
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
@@ -36,9 +37,9 @@ func needFile(t *testing.T, path, why string) {
 
 // settings returns the demo's learn settings ("--stop en --words 1-2
 // --min-docs 2 --idf smooth --norm l2") for the given input.
-func settings(t testing.TB, in spec.Input) *spec.Settings {
+func settings(t testing.TB, in spec.Input) *learn.Settings {
 	t.Helper()
-	st := &spec.Settings{Input: in, Tokens: tokenize.DefaultOptions(), KeepNegations: true, Mode: spec.ModeVocabulary}
+	st := &learn.Settings{Input: in, Tokens: tokenize.DefaultOptions(), KeepNegations: true, Mode: spec.ModeVocabulary}
 	words, err := stopwords.Builtin("en")
 	if err != nil {
 		t.Fatal(err)
@@ -53,7 +54,7 @@ func settings(t testing.TB, in spec.Input) *spec.Settings {
 }
 
 // hashSettings switches st to signed hashing with width buckets.
-func hashSettings(t testing.TB, st *spec.Settings, width string) *spec.Settings {
+func hashSettings(t testing.TB, st *learn.Settings, width string) *learn.Settings {
 	t.Helper()
 	w, err := hashing.ParseWidth(width)
 	if err != nil {
@@ -66,9 +67,9 @@ func hashSettings(t testing.TB, st *spec.Settings, width string) *spec.Settings 
 }
 
 // learn learns a spec from a corpus held in memory.
-func learn(t testing.TB, data []byte, name string, st *spec.Settings) *spec.Spec {
+func learnSpec(t testing.TB, data []byte, name string, st *learn.Settings) *spec.Spec {
 	t.Helper()
-	l, err := spec.NewLearner(st)
+	l, err := learn.New(st)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -114,7 +115,7 @@ var demoInput = spec.Input{Format: "tsv", Text: []string{"text"}, Label: "team",
 func demoEncoder(t testing.TB) *bowline.Encoder {
 	t.Helper()
 	train, _ := demoSplit(t, 300)
-	enc, err := bowline.New(learn(t, train, "train.tsv", settings(t, demoInput)))
+	enc, err := bowline.New(learnSpec(t, train, "train.tsv", settings(t, demoInput)))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -131,7 +132,7 @@ func twoFieldEncoder(t testing.TB) *bowline.Encoder {
 		"Dock stuck again\tThe dock at Quill Square would not release the bike.\n"
 	st := settings(t, spec.Input{Format: "tsv", Text: []string{"title", "body"}})
 	st.Cutoffs.MinDocs = 1
-	enc, err := bowline.New(learn(t, []byte(data), "two.tsv", st))
+	enc, err := bowline.New(learnSpec(t, []byte(data), "two.tsv", st))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -11,6 +11,8 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
@@ -24,10 +26,10 @@ import (
 // values, bit for bit. The SVMlight bytes are read back with the svmlight
 // package's Reader, which follows T. Joachims' SVMlight format description.
 // It returns the number of rows and of non-zeros compared.
-func parity(t *testing.T, train, test []byte, name string, st *spec.Settings, batch int) (rows, nnz int) {
+func parity(t *testing.T, train, test []byte, name string, st *learn.Settings, batch int) (rows, nnz int) {
 	t.Helper()
-	s := learn(t, train, name+"-train", st)
-	senc, err := spec.NewEncoder(s)
+	s := learnSpec(t, train, name+"-train", st)
+	senc, err := encode.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -125,10 +127,10 @@ func TestParityDemo(t *testing.T) {
 	train, test := demoSplit(t, 1000)
 	for _, c := range []struct {
 		name string
-		st   *spec.Settings
+		st   *learn.Settings
 	}{
 		{"vocabulary", settings(t, demoInput)},
-		{"vocabulary-unseen-hash", func() *spec.Settings {
+		{"vocabulary-unseen-hash", func() *learn.Settings {
 			st := settings(t, demoInput)
 			st.Unseen = vocab.Unseen{Mode: vocab.UnseenHash, Buckets: 16} // --unseen hash:16
 			st.NGrams.Chars.Min, st.NGrams.Chars.Max = 3, 4

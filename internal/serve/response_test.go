@@ -15,6 +15,8 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
@@ -28,10 +30,10 @@ import (
 // answer as in the SVMlight row ("idx:val" pairs as T. Joachims' SVMlight
 // format description lays them out). It returns the rows and values
 // compared.
-func byteParity(t *testing.T, train, test []byte, name string, st *spec.Settings, batch int) (rows, values int) {
+func byteParity(t *testing.T, train, test []byte, name string, st *learn.Settings, batch int) (rows, values int) {
 	t.Helper()
-	s := learn(t, train, name+"-train", st)
-	senc, err := spec.NewEncoder(s)
+	s := learnSpec(t, train, name+"-train", st)
+	senc, err := encode.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -136,10 +138,10 @@ func TestByteParityDemo(t *testing.T) {
 	train, test := demoSplit(t, 1000)
 	for _, c := range []struct {
 		name string
-		st   *spec.Settings
+		st   *learn.Settings
 	}{
 		{"vocabulary", settings(t, demoInput)},
-		{"vocabulary-counts-unseen-hash", func() *spec.Settings {
+		{"vocabulary-counts-unseen-hash", func() *learn.Settings {
 			st := settings(t, demoInput)
 			st.Unseen = vocab.Unseen{Mode: vocab.UnseenHash, Buckets: 16} // --unseen hash:16
 			st.IDF, st.Norm = weight.IDFNone, weight.NormNone             // whole counts: the integer path

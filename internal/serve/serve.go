@@ -198,7 +198,7 @@ func specDocument(enc *bowline.Encoder) ([]byte, error) {
 		Fields      []string       `json:"fields"`
 		IndexBase   int            `json:"index_base"`
 		Settings    map[string]any `json:"settings"`
-	}{s.Fingerprint, s.Parent, s.Tool, s.Content.Mode, enc.Columns(), terms, enc.Fields(), IndexBase, settings}
+	}{s.Fingerprint, s.Parent, s.Tool, string(s.Content.Mode), enc.Columns(), terms, enc.Fields(), IndexBase, settings}
 	return json.Marshal(&doc)
 }
 

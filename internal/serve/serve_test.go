@@ -234,7 +234,7 @@ func TestSpecEndpoint(t *testing.T) {
 		t.Fatal(err)
 	}
 	s := enc.Spec()
-	if doc.Fingerprint != s.Fingerprint || doc.Mode != spec.ModeVocabulary || doc.Columns != enc.Columns() || doc.Terms != len(s.Content.Vocabulary.Keys) || doc.IndexBase != 1 {
+	if doc.Fingerprint != s.Fingerprint || doc.Mode != string(spec.ModeVocabulary) || doc.Columns != enc.Columns() || doc.Terms != len(s.Content.Vocabulary.Keys) || doc.IndexBase != 1 {
 		t.Errorf("spec document %+v", doc)
 	}
 	if len(doc.Fields) != 1 || doc.Fields[0] != "text" {
@@ -265,8 +265,8 @@ func TestSpecEndpoint(t *testing.T) {
 
 func TestReload(t *testing.T) {
 	train, _ := demoSplit(t, 300)
-	a := learn(t, train, "train.tsv", settings(t, demoInput))
-	b := learn(t, train, "train.tsv", hashSettings(t, settings(t, demoInput), "2^12"))
+	a := learnSpec(t, train, "train.tsv", settings(t, demoInput))
+	b := learnSpec(t, train, "train.tsv", hashSettings(t, settings(t, demoInput), "2^12"))
 	pa, pb := saveSpec(t, a, "a.json"), saveSpec(t, b, "b.json.gz")
 	h, err := Open(pa, Options{})
 	if err != nil {
@@ -328,8 +328,8 @@ func TestReload(t *testing.T) {
 // response must be entirely the work of the spec it names (run with -race).
 func TestConcurrentEncodeAndReload(t *testing.T) {
 	train, _ := demoSplit(t, 300)
-	a := learn(t, train, "train.tsv", settings(t, demoInput))
-	b := learn(t, train, "train.tsv", hashSettings(t, settings(t, demoInput), "2^10"))
+	a := learnSpec(t, train, "train.tsv", settings(t, demoInput))
+	b := learnSpec(t, train, "train.tsv", hashSettings(t, settings(t, demoInput), "2^10"))
 	pa, pb := saveSpec(t, a, "a.json"), saveSpec(t, b, "b.json")
 	encA, _ := bowline.New(a)
 	encB, _ := bowline.New(b)

@@ -6,8 +6,9 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
 	"github.com/bowline/bowline/internal/pipeline"
-	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/vocab"
 )
 
@@ -39,7 +40,7 @@ func (d *docSet) len() int { return len(d.start) - 1 }
 // collector reads documents into a docSet, adding keys to the table.
 type collector struct {
 	t      *keyTable
-	z      *spec.Analyzer
+	z      *analysis.Analyzer
 	h      *hashing.Hasher
 	counts *vocab.Counts // training pass only: for the vocabulary's cutoffs
 	last   []int32       // last document that saw each key
@@ -49,7 +50,8 @@ type collector struct {
 	train  bool
 }
 
-func (c *collector) add(key []byte, code int) {
+func (c *collector) add(key []byte, o ngram.Order) {
+	code := int(o)
 	t := c.t
 	id, ok := t.ids[string(key)]
 	if !ok {

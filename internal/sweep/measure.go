@@ -5,8 +5,8 @@ import (
 	"slices"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/logreg"
-	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )
@@ -114,7 +114,7 @@ func explain(t *keyTable, w uint64, n int) *Explain {
 // are the buckets that occur in either corpus, renumbered in bucket order,
 // so rows hold the same values in the same order as bowline encode writes
 // with a spec learned with --hash w.
-func hashedDatasets(t *keyTable, s *spec.Settings, w uint64, signed bool, tr, te *docSet, trY, teY []float64) (*logreg.Dataset, *logreg.Dataset) {
+func hashedDatasets(t *keyTable, s *learn.Settings, w uint64, signed bool, tr, te *docSet, trY, teY []float64) (*logreg.Dataset, *logreg.Dataset) {
 	n := len(t.keys)
 	bucket := make([]uint64, n)
 	order := make([]int32, n)
@@ -171,7 +171,7 @@ func hashedDatasets(t *keyTable, s *spec.Settings, w uint64, signed bool, tr, te
 // vocabBuilder maps key ids to vocabulary columns.
 type vocabBuilder struct {
 	t       *keyTable
-	s       *spec.Settings
+	s       *learn.Settings
 	v       *vocab.Vocabulary
 	cut     vocab.CutReport
 	col     []int32 // per key id: column, or −1 for an unseen key
@@ -180,7 +180,7 @@ type vocabBuilder struct {
 	docs    int64
 }
 
-func newVocabBuilder(t *keyTable, counts *vocab.Counts, s *spec.Settings) *vocabBuilder {
+func newVocabBuilder(t *keyTable, counts *vocab.Counts, s *learn.Settings) *vocabBuilder {
 	v, cut := counts.Build(s.Cutoffs)
 	b := &vocabBuilder{t: t, s: s, v: v, cut: cut, col: make([]int32, len(t.keys)), docs: counts.Docs()}
 	for i := range b.col {

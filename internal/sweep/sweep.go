@@ -10,6 +10,8 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/logreg"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/spec"
@@ -32,7 +34,7 @@ type Options struct {
 	// Settings are the analysis, vocabulary and weighting settings, in
 	// vocabulary mode: the vocabulary they describe is the reference
 	// row, and every hashing width uses the same analysis and weights.
-	Settings *spec.Settings
+	Settings *learn.Settings
 	// Widths are the hashing widths to measure, ascending.
 	Widths []uint64
 	// Seed and Signed are the hashing settings shared by every width.
@@ -200,11 +202,11 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 	if o.Explain > 0 && ew == 0 {
 		ew = o.Widths[len(o.Widths)-1]
 	}
-	l, err := spec.NewLearner(s)
+	l, err := learn.New(s)
 	if err != nil {
 		return nil, err
 	}
-	an, err := l.Content().Analysis()
+	an, err := analysis.New(l.Content())
 	if err != nil {
 		return nil, err
 	}
@@ -249,7 +251,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 			}
 		}
 		slices.Sort(distinct)
-		lm := spec.LabelsFrom(distinct, true)
+		lm := learn.LabelsFrom(distinct, true)
 		toY := func(d *docSet) ([]float64, error) {
 			y := make([]float64, len(d.labels))
 			for i, v := range d.labels {

@@ -10,7 +10,10 @@ import (
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/logreg"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
@@ -68,14 +71,14 @@ func demoCorpus(t testing.TB, docs int) (train, test []byte) {
 	return []byte(lines[0] + strings.Join(lines[1:1+n], "")), []byte(lines[0] + strings.Join(lines[1+n:], ""))
 }
 
-func settings(t testing.TB, label string) *spec.Settings {
+func settings(t testing.TB, label string) *learn.Settings {
 	t.Helper()
 	words, err := stopwords.Builtin("en")
 	if err != nil {
 		t.Fatal(err)
 	}
 	w12, _ := ngram.ParseWords("1-2")
-	return &spec.Settings{
+	return &learn.Settings{
 		Input:         spec.Input{Format: "tsv", Text: []string{"text"}, Label: label},
 		Tokens:        tokenize.DefaultOptions(),
 		StopSources:   []string{"en"},
@@ -100,13 +103,13 @@ func reader(t testing.TB, b []byte, label string) *corpus.Reader {
 }
 
 // collect runs the two passes of a sweep.
-func collect(t testing.TB, s *spec.Settings, train, test []byte, seed uint64) (*keyTable, *vocab.Counts, *docSet, *docSet) {
+func collect(t testing.TB, s *learn.Settings, train, test []byte, seed uint64) (*keyTable, *vocab.Counts, *docSet, *docSet) {
 	t.Helper()
-	l, err := spec.NewLearner(s)
+	l, err := learn.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
-	an, err := l.Content().Analysis()
+	an, err := analysis.New(l.Content())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -128,7 +131,7 @@ func collect(t testing.TB, s *spec.Settings, train, test []byte, seed uint64) (*
 
 // TestCollisionsMatchTally checks every width's collision figures against
 // hashing.Tally, filled independently by bowline learn's hashing-mode
-// counting (spec.LearnWorker) over the same corpus.
+// counting (learn.Worker) over the same corpus.
 func TestCollisionsMatchTally(t *testing.T) {
 	train, test := demoCorpus(t, 1000)
 	s := settings(t, "")
@@ -138,7 +141,7 @@ func TestCollisionsMatchTally(t *testing.T) {
 	hs := *s
 	hs.Mode = spec.ModeHashing
 	hs.Hashing = spec.Hashing{Width: 1 << 20, Seed: seed}
-	l, err := spec.NewLearner(&hs)
+	l, err := learn.New(&hs)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -170,7 +173,7 @@ func TestCollisionsMatchTally(t *testing.T) {
 // encoderRows encodes b with spec s, as bowline encode does.
 func encoderRows(t *testing.T, s *spec.Spec, b []byte) []weight.Row {
 	t.Helper()
-	enc, err := spec.NewEncoder(s)
+	enc, err := encode.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -185,9 +188,9 @@ func encoderRows(t *testing.T, s *spec.Spec, b []byte) []weight.Row {
 	return rows
 }
 
-func learnSpec(t *testing.T, s *spec.Settings, train []byte) *spec.Spec {
+func learnSpec(t *testing.T, s *learn.Settings, train []byte) *spec.Spec {
 	t.Helper()
-	l, err := spec.NewLearner(s)
+	l, err := learn.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,4 +1,4 @@
-package spec
+package analysis
 
 import (
 	"fmt"
@@ -7,24 +7,22 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
-	"github.com/bowline/bowline/vocab"
-	"github.com/bowline/bowline/weight"
 )
 
-// longDocument returns the Analysis of ng (and stem) for one "lines"
+// longDocument returns the Chain of ng (and stem) for one "lines"
 // field, and a text of 3 chunks and then some, its i-th word word(i).
-func longDocument(t *testing.T, ng ngram.Config, stem string, word func(i int) string) (*Analysis, []byte) {
+func longDocument(t *testing.T, ng ngram.Config, stem string, word func(i int) string) (*Chain, []byte) {
 	t.Helper()
-	s := &Settings{
-		Input: Input{Format: "lines", Text: []string{"line"}}, Tokens: tokenize.DefaultOptions(),
-		NGrams: ng, Stem: stem, Mode: ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(), TF: weight.TFCount,
+	if stem == "" {
+		stem = "none"
 	}
-	c, err := s.Content()
-	if err != nil {
-		t.Fatal(err)
+	c := &spec.Content{
+		Input: spec.Input{Format: "lines", Text: []string{"line"}}, Tokens: spec.TokensFrom(tokenize.DefaultOptions()),
+		NGrams: spec.NGrams{Words: ng.Words.String(), Chars: ng.Chars.String()}, Stem: stem, Mode: spec.ModeVocabulary,
 	}
-	a, err := c.Analysis()
+	a, err := New(c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -58,13 +56,13 @@ func TestLongDocumentChunks(t *testing.T) {
 		ng := ngram.Config{Words: words, Chars: ngram.Range{Min: 3, Max: 3}}
 		a, text := longDocument(t, ng, "", func(i int) string { return fmt.Sprintf("w%d", i%97) })
 		var got []string
-		a.NewAnalyzer().Analyze([][]byte{text}, func(k []byte, _ int) { got = append(got, string(k)) })
+		a.NewAnalyzer().Analyze([][]byte{text}, func(k []byte, _ ngram.Order) { got = append(got, string(k)) })
 
 		var toks [][]byte
 		tok, _ := tokenize.New(tokenize.DefaultOptions())
 		tok.Each(text, func(t []byte, _ tokenize.Kind) { toks = append(toks, append([]byte(nil), t...)) })
 		var want []string
-		ngram.NewBuilder(ng).Emit(nil, toks, func(k []byte, _ ngram.Kind, _ int) { want = append(want, string(k)) })
+		ngram.NewBuilder(ng).Emit(nil, toks, func(k []byte, _ ngram.Order) { want = append(want, string(k)) })
 		sameKeys(t, fmt.Sprintf("words %v", words), got, want)
 	}
 }
@@ -80,7 +78,7 @@ func TestLongDocumentChunksStemmed(t *testing.T) {
 	ng := ngram.Config{Words: ngram.Range{Min: 1, Max: 3}}
 	a, text := longDocument(t, ng, "en", func(i int) string { return words[(i*7)%len(words)] })
 	var got []string
-	a.NewAnalyzer().Analyze([][]byte{text}, func(k []byte, _ int) { got = append(got, string(k)) })
+	a.NewAnalyzer().Analyze([][]byte{text}, func(k []byte, _ ngram.Order) { got = append(got, string(k)) })
 
 	stem, err := tokenize.NewStemmer("en")
 	if err != nil {
@@ -90,6 +88,6 @@ func TestLongDocumentChunksStemmed(t *testing.T) {
 	tok, _ := tokenize.New(tokenize.DefaultOptions())
 	tok.Each(text, func(t []byte, _ tokenize.Kind) { toks = append(toks, append([]byte(nil), stem.Stem(t)...)) })
 	var want []string
-	ngram.NewBuilder(ng).Emit(nil, toks, func(k []byte, _ ngram.Kind, _ int) { want = append(want, string(k)) })
+	ngram.NewBuilder(ng).Emit(nil, toks, func(k []byte, _ ngram.Order) { want = append(want, string(k)) })
 	sameKeys(t, "stemmed", got, want)
 }

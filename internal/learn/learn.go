@@ -1,12 +1,17 @@
-package spec
+// Package learn fits a spec on a training corpus: counts, cutoffs and learned weights, index-stable refreshes, and count shards merged into one spec.
+package learn
 
 import (
 	"fmt"
-	"math"
 	"sort"
+	"strconv"
+	"strings"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
 	"github.com/bowline/bowline/tokenize"
 	"github.com/bowline/bowline/vocab"
@@ -16,7 +21,7 @@ import (
 // Settings are the choices a user makes before learning: everything in a
 // spec except the numbers learned from the corpus.
 type Settings struct {
-	Input  Input
+	Input  spec.Input
 	Tokens tokenize.Options
 	// StopSources are the --stop arguments; StopWords the words they
 	// contributed, before normalization.
@@ -26,29 +31,30 @@ type Settings struct {
 	// Stem is a stemming language code, or "" / "none".
 	Stem    string
 	NGrams  ngram.Config
-	Mode    string
+	Mode    spec.Mode
 	Cutoffs vocab.Cutoffs
 	Unseen  vocab.Unseen
-	Hashing Hashing
+	Hashing spec.Hashing
 	TF      weight.TF
 	IDF     weight.IDF
 	Norm    weight.Norm
 	// Fields are the table fields read beside the text, with their
-	// settings only (see ParseCategory, ParseNumber, ParseTime).
-	Fields []TableField
+	// settings only (see the tablefield package's ParseCategory,
+	// ParseNumber and ParseTime).
+	Fields []spec.TableField
 }
 
 // Content returns the spec content the settings describe, without learned
 // numbers: the normalized stop list is computed here.
-func (s *Settings) Content() (Content, error) {
-	c := Content{
+func (s *Settings) Content() (spec.Content, error) {
+	c := spec.Content{
 		Input:   s.Input,
-		Tokens:  TokensFrom(s.Tokens),
+		Tokens:  spec.TokensFrom(s.Tokens),
 		Stem:    "none",
-		NGrams:  NGrams{Words: s.NGrams.Words.String(), Chars: s.NGrams.Chars.String()},
+		NGrams:  spec.NGrams{Words: s.NGrams.Words.String(), Chars: s.NGrams.Chars.String()},
 		Mode:    s.Mode,
-		Weights: Weights{TF: s.TF.String(), IDF: s.IDF.String(), Norm: s.Norm.String()},
-		Fields:  copyFields(s.Fields),
+		Weights: spec.Weights{TF: s.TF, IDF: s.IDF, Norm: s.Norm},
+		Fields:  spec.CloneFields(s.Fields),
 	}
 	if s.Stem != "" && s.Stem != "none" {
 		st, err := tokenize.NewStemmer(s.Stem)
@@ -63,18 +69,18 @@ func (s *Settings) Content() (Content, error) {
 			return c, err
 		}
 		set := stopwords.NewSet(s.StopWords, tok.AppendNormalized, s.KeepNegations)
-		c.Stop = Stop{Sources: s.StopSources, KeepNegations: s.KeepNegations, Words: set.Words()}
+		c.Stop = spec.Stop{Sources: s.StopSources, KeepNegations: s.KeepNegations, Words: set.Words()}
 	} else {
-		c.Stop = Stop{Sources: s.StopSources, KeepNegations: s.KeepNegations}
+		c.Stop = spec.Stop{Sources: s.StopSources, KeepNegations: s.KeepNegations}
 	}
 	switch s.Mode {
-	case ModeVocabulary:
+	case spec.ModeVocabulary:
 		if err := s.Cutoffs.Validate(); err != nil {
 			return c, err
 		}
-		c.Vocabulary = &Vocabulary{MinDocs: s.Cutoffs.MinDocs, MaxDocShare: s.Cutoffs.MaxDocShare,
-			MaxTerms: s.Cutoffs.MaxTerms, Unseen: s.Unseen.String()}
-	case ModeHashing:
+		c.Vocabulary = &spec.Vocabulary{MinDocs: s.Cutoffs.MinDocs, MaxDocShare: s.Cutoffs.MaxDocShare,
+			MaxTerms: s.Cutoffs.MaxTerms, Unseen: s.Unseen}
+	case spec.ModeHashing:
 		h := s.Hashing
 		if _, err := hashing.New(h.Width, h.Seed, h.Signed); err != nil {
 			return c, err
@@ -83,41 +89,41 @@ func (s *Settings) Content() (Content, error) {
 	default:
 		return c, fmt.Errorf("unknown mode %q", s.Mode)
 	}
-	if err := c.validateFields(); err != nil {
+	if err := c.ValidateFields(); err != nil {
 		return c, err
 	}
 	return c, nil
 }
 
 // Learner fits a spec on a training corpus. Each goroutine observes
-// documents through its own LearnWorker; the workers are merged at the end.
+// documents through its own Worker; the workers are merged at the end.
 type Learner struct {
-	content  Content
-	analysis *Analysis
+	content  spec.Content
+	analysis *analysis.Chain
 	idf      weight.IDF
 	cutoffs  vocab.Cutoffs
 	capacity int        // most distinct keys counted at once (0: no limit)
-	parent   *Spec      // the spec being extended (see NewExtendLearner)
+	parent   *spec.Spec // the spec being extended (see NewExtend)
 	ext      *Extension // filled by Finish when extending
-	fields   *fieldLearner
+	fields   *tablefield.Learner
 	// extCut is what the cutoffs removed from the new corpus's keys
 	// when extending a parent spec.
 	extCut vocab.CutReport
 }
 
-// NewLearner prepares learning with the given settings.
-func NewLearner(s *Settings) (*Learner, error) {
+// New prepares learning with the given settings.
+func New(s *Settings) (*Learner, error) {
 	c, err := s.Content()
 	if err != nil {
 		return nil, err
 	}
-	a, err := c.Analysis()
+	a, err := analysis.New(&c)
 	if err != nil {
 		return nil, err
 	}
 	l := &Learner{content: c, analysis: a, idf: s.IDF, cutoffs: s.Cutoffs}
 	if len(c.Fields) > 0 {
-		if l.fields, err = newFieldLearner(c.Fields, c.Mode, a.tokOpts); err != nil {
+		if l.fields, err = tablefield.NewLearner(c.Fields, c.Mode, a.TokenOptions()); err != nil {
 			return nil, err
 		}
 	}
@@ -129,7 +135,7 @@ func NewLearner(s *Settings) (*Learner, error) {
 // missing). Call it once for every record observed, from one goroutine,
 // in input order: the statistics are summed in that order, so the spec
 // does not depend on the worker count. A value that cannot be read is a
-// *FieldError, and nothing of the record is counted then.
+// *tablefield.ValueError, and nothing of the record is counted then.
 func (l *Learner) ObserveFields(values [][]byte) error {
 	if l.fields == nil {
 		if values == nil {
@@ -137,42 +143,24 @@ func (l *Learner) ObserveFields(values [][]byte) error {
 		}
 		return fmt.Errorf("%d table field values, but the spec has no table fields", len(values))
 	}
-	return l.fields.observe(values)
+	return l.fields.Observe(values)
 }
 
 // FieldStats returns the training figures of the table fields observed so
 // far, one per field.
-func (l *Learner) FieldStats() []FieldStat {
+func (l *Learner) FieldStats() []tablefield.Stat {
 	if l.fields == nil {
 		return nil
 	}
-	out := make([]FieldStat, len(l.fields.fields))
-	for i, f := range l.fields.fields {
-		st := &l.fields.stats[i]
-		out[i] = FieldStat{Name: f.Name, Kind: f.Kind, Docs: l.fields.docs, Missing: st.missing, Values: st.n,
-			Mean: st.mean, Min: st.min, Max: st.max, DistinctSeen: int64(len(st.levels))}
-		if st.n > 0 && f.Kind == KindNumber {
-			out[i].SD = math.Sqrt(st.m2 / float64(st.n))
-		}
-		if f.Kind != KindNumber {
-			out[i].Mean, out[i].Min, out[i].Max = 0, 0, 0
-		}
-		if f.Kind == KindTime {
-			out[i].First, out[i].Last = st.first, st.last
-		}
-		if f.Kind == KindCategory && l.content.Vocabulary != nil {
-			for _, n := range st.levels {
-				if n < l.content.Vocabulary.MinDocs {
-					out[i].Other += n
-				}
-			}
-		}
+	var minDocs int64
+	if l.content.Vocabulary != nil {
+		minDocs = l.content.Vocabulary.MinDocs
 	}
-	return out
+	return l.fields.Stats(minDocs)
 }
 
 // Content is the content being learned (settings only until Finish).
-func (l *Learner) Content() *Content { return &l.content }
+func (l *Learner) Content() *spec.Content { return &l.content }
 
 // LimitKeys bounds the distinct keys the merged counts hold at once (a
 // memory limit): past it, the keys with the lowest document counts are
@@ -180,7 +168,7 @@ func (l *Learner) Content() *Content { return &l.content }
 // the spec records what was pruned in Vocabulary.Seen.Pruning. It applies
 // to the counts made by NewTotal; only vocabulary mode counts keys.
 func (l *Learner) LimitKeys(capacity int) error {
-	if l.content.Mode != ModeVocabulary {
+	if l.content.Mode != spec.ModeVocabulary {
 		return fmt.Errorf("a key limit applies to vocabulary mode only; hashing mode keeps no per-key counts")
 	}
 	if capacity < vocab.MinCapacity {
@@ -195,7 +183,7 @@ func (l *Learner) KeyLimit() int { return l.capacity }
 
 // NewTotal returns an empty worker to merge other workers into: it has no
 // analyzer, and its counts are bounded when LimitKeys was called.
-func (l *Learner) NewTotal() *LearnWorker {
+func (l *Learner) NewTotal() *Worker {
 	w := l.NewWorker()
 	if l.capacity > 0 {
 		w.counts = vocab.NewBoundedCounts(l.capacity)
@@ -207,26 +195,26 @@ func (l *Learner) NewTotal() *LearnWorker {
 // and documents, no analyzer) and leaves w with fresh, empty counts, so
 // that one goroutine's counts can be merged batch by batch, in order.
 // Vocabulary mode only.
-func (w *LearnWorker) Detach() *LearnWorker {
-	d := &LearnWorker{l: w.l, counts: w.counts, docs: w.docs}
+func (w *Worker) Detach() *Worker {
+	d := &Worker{l: w.l, counts: w.counts, docs: w.docs}
 	w.counts = vocab.NewCounts()
 	w.docs = 0
 	return d
 }
 
 // Docs is the number of documents the worker has counted.
-func (w *LearnWorker) Docs() int64 { return w.docs }
+func (w *Worker) Docs() int64 { return w.docs }
 
-// LearnWorker counts the documents one goroutine sees.
-type LearnWorker struct {
+// Worker counts the documents one goroutine sees.
+type Worker struct {
 	l      *Learner
-	z      *Analyzer
+	z      *analysis.Analyzer
 	counts *vocab.Counts
 	// ids counts word unigrams and bigrams by word ids (vocabulary mode
 	// without a key limit); settle moves them into counts.
 	ids     *vocab.IDCounts
 	wordsFn func(int, []byte, [][]byte, int)
-	charsFn func([]byte, int)
+	charsFn func([]byte, ngram.Order)
 	emitted int     // keys of the document being observed
 	idbuf   []int32 // word ids of a chunk's tokens
 	key     []byte  // a key of three or more words
@@ -242,12 +230,12 @@ type LearnWorker struct {
 }
 
 // NewWorker returns a worker for one goroutine.
-func (l *Learner) NewWorker() *LearnWorker {
-	w := &LearnWorker{l: l, z: l.analysis.NewAnalyzer()}
-	if l.content.Mode == ModeVocabulary {
+func (l *Learner) NewWorker() *Worker {
+	w := &Worker{l: l, z: l.analysis.NewAnalyzer()}
+	if l.content.Mode == spec.ModeVocabulary {
 		w.counts = vocab.NewCounts()
-		p := l.analysis.prefixes()
-		if l.capacity == 0 && l.analysis.ngrams.Words.On() && len(p) <= vocab.MaxIDFields {
+		p := l.analysis.Prefixes()
+		if l.capacity == 0 && l.analysis.Words().On() && len(p) <= vocab.MaxIDFields {
 			w.ids = vocab.NewIDCounts(p)
 			w.wordsFn, w.charsFn = w.countWords, w.countKey
 		}
@@ -264,11 +252,11 @@ func (l *Learner) NewWorker() *LearnWorker {
 }
 
 // Analyzer returns the worker's analyzer (for its token figures).
-func (w *LearnWorker) Analyzer() *Analyzer { return w.z }
+func (w *Worker) Analyzer() *analysis.Analyzer { return w.z }
 
 // Observe counts one training document; it returns the number of feature
 // keys the document produced.
-func (w *LearnWorker) Observe(texts [][]byte) int {
+func (w *Worker) Observe(texts [][]byte) int {
 	n := 0
 	w.docs++
 	if w.ids != nil {
@@ -279,15 +267,15 @@ func (w *LearnWorker) Observe(texts [][]byte) int {
 		return w.emitted
 	}
 	if w.counts != nil {
-		w.z.Analyze(texts, func(key []byte, code int) {
+		w.z.Analyze(texts, func(key []byte, code ngram.Order) {
 			n++
-			w.counts.Add(key, code)
+			w.counts.Add(key, int(code))
 		})
 		w.counts.EndDoc()
 		return n
 	}
 	width := w.l.content.Hashing.Width
-	w.z.Analyze(texts, func(key []byte, code int) {
+	w.z.Analyze(texts, func(key []byte, _ ngram.Order) {
 		n++
 		sum := w.h.Sum(key)
 		w.tally.Add(sum)
@@ -305,13 +293,13 @@ func (w *LearnWorker) Observe(texts [][]byte) int {
 // countWords counts the word n-grams of a chunk of tokens (see
 // Analyzer.AnalyzeTokens): unigrams and bigrams by word ids, longer ones
 // and those of words without an id by bytes.
-func (w *LearnWorker) countWords(field int, prefix []byte, tokens [][]byte, from int) {
+func (w *Worker) countWords(field int, prefix []byte, tokens [][]byte, from int) {
 	ids := w.idbuf[:0]
 	for _, t := range tokens {
 		ids = append(ids, w.ids.Word(t))
 	}
 	w.idbuf = ids
-	r := w.l.analysis.ngrams.Words
+	r := w.l.analysis.Words()
 	for n := r.Min; n <= r.Max && n <= len(tokens); n++ {
 		for i := max(0, from-n+1); i+n <= len(tokens); i++ {
 			w.emitted++
@@ -330,20 +318,20 @@ func (w *LearnWorker) countWords(field int, prefix []byte, tokens [][]byte, from
 }
 
 // countKey counts a key by its bytes.
-func (w *LearnWorker) countKey(key []byte, code int) {
+func (w *Worker) countKey(key []byte, code ngram.Order) {
 	w.emitted++
-	w.counts.Add(key, code)
+	w.counts.Add(key, int(code))
 }
 
 // settle moves the keys counted by word ids into the counts.
-func (w *LearnWorker) settle() {
+func (w *Worker) settle() {
 	if w.ids != nil && w.ids.Len() > 0 {
 		w.ids.AddTo(w.counts)
 	}
 }
 
 // Merge adds o's counts to w's.
-func (w *LearnWorker) Merge(o *LearnWorker) {
+func (w *Worker) Merge(o *Worker) {
 	w.docs += o.docs
 	if w.counts != nil {
 		if w.ids != nil && o.ids != nil {
@@ -362,32 +350,32 @@ func (w *LearnWorker) Merge(o *LearnWorker) {
 }
 
 // Tally is the hashing-mode collision account (nil in vocabulary mode).
-func (w *LearnWorker) Tally() *hashing.Tally { return w.tally }
+func (w *Worker) Tally() *hashing.Tally { return w.tally }
 
 // Counts are the vocabulary-mode counts (nil in hashing mode).
-func (w *LearnWorker) Counts() *vocab.Counts {
+func (w *Worker) Counts() *vocab.Counts {
 	w.settle()
 	return w.counts
 }
 
 // Finish turns the merged counts of w into a sealed spec; labels are the
 // distinct training label values.
-func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport, error) {
+func (l *Learner) Finish(w *Worker, labels spec.Labels) (*spec.Spec, vocab.CutReport, error) {
 	c := l.content
 	c.Docs = w.docs
 	c.Labels = labels
 	if l.fields != nil {
-		if l.fields.docs != w.docs {
-			return nil, vocab.CutReport{}, fmt.Errorf("table fields were observed for %d records, the text for %d (call ObserveFields once per record)", l.fields.docs, w.docs)
+		if l.fields.Docs() != w.docs {
+			return nil, vocab.CutReport{}, fmt.Errorf("table fields were observed for %d records, the text for %d (call ObserveFields once per record)", l.fields.Docs(), w.docs)
 		}
 		var minDocs int64
 		if c.Vocabulary != nil {
 			minDocs = c.Vocabulary.MinDocs
 		}
-		c.Fields = l.fields.finish(c.Mode, minDocs)
+		c.Fields = l.fields.Finish(c.Mode, minDocs)
 	}
 	var rep vocab.CutReport
-	if c.Mode == ModeVocabulary {
+	if c.Mode == spec.ModeVocabulary {
 		// Under a key limit the cutoffs apply to the documents each kept
 		// key really counted (vocab.Counts.Settle).
 		w.settle()
@@ -438,7 +426,7 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 		}
 		c.Weights.IDFDefault = l.idf.Value(c.Docs, 0)
 	}
-	s := &Spec{Content: c}
+	s := &spec.Spec{Content: c}
 	if l.parent != nil {
 		s.Parent = l.parent.Fingerprint
 	}
@@ -457,15 +445,37 @@ func (l *Learner) Finish(w *LearnWorker, labels Labels) (*Spec, vocab.CutReport,
 }
 
 // seenFrom summarizes every counted key for the spec.
-func seenFrom(c *vocab.Counts) *Seen {
-	sn := &Seen{Keys: int64(c.Len()), DocHistogram: c.DocHistogram(), TopDocCounts: c.TopDocCounts(TopDocCountsKept)}
+func seenFrom(c *vocab.Counts) *spec.Seen {
+	sn := &spec.Seen{Keys: int64(c.Len()), DocHistogram: c.DocHistogram(), TopDocCounts: c.TopDocCounts(spec.TopDocCountsKept)}
 	sn.Orders, sn.OrderKeys = c.OrderKeys()
 	if sn.Orders == nil {
 		sn.Orders, sn.OrderKeys = []int{}, []int64{}
 	}
 	if p := c.Pruning(); p.Evicted > 0 || p.MaxDocs > 0 {
-		sn.Pruning = &Pruning{Method: "space-saving", Capacity: int64(p.Capacity), Evicted: p.Evicted,
+		sn.Pruning = &spec.Pruning{Method: "space-saving", Capacity: int64(p.Capacity), Evicted: p.Evicted,
 			EvictedDocs: p.EvictedDocs, EvictedCount: p.EvictedCount, MaxDocs: p.MaxDocs, InexactKeys: int64(p.InexactKeys)}
 	}
 	return sn
+}
+
+// LabelsFrom decides how labels become numbers from the distinct label
+// values of the training corpus: all numeric means pass-through, anything
+// else a sorted label map.
+func LabelsFrom(values []string, hasLabel bool) spec.Labels {
+	if !hasLabel {
+		return spec.Labels{Kind: spec.LabelsNone}
+	}
+	numeric := true
+	for _, v := range values {
+		if _, err := strconv.ParseFloat(strings.TrimSpace(v), 64); err != nil {
+			numeric = false
+			break
+		}
+	}
+	if numeric {
+		return spec.Labels{Kind: spec.LabelsNumber}
+	}
+	m := append([]string(nil), values...)
+	sort.Strings(m)
+	return spec.Labels{Kind: spec.LabelsString, Map: m}
 }

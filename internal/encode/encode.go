@@ -1,4 +1,5 @@
-package spec
+// Package encode applies a spec to documents: rows, labels and the run's figures.
+package encode
 
 import (
 	"fmt"
@@ -9,7 +10,10 @@ import (
 	"sync"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 	"github.com/cespare/xxhash/v2"
@@ -18,8 +22,8 @@ import (
 // Encoder applies a frozen spec to documents. It is safe for concurrent use
 // through Workers: each goroutine calls NewWorker once.
 type Encoder struct {
-	spec     *Spec
-	analysis *Analysis
+	spec     *spec.Spec
+	analysis *analysis.Chain
 	index    *vocab.Index // vocabulary mode
 	nterms   int          // vocabulary columns (before unseen columns)
 	orders   []int        // order code of each vocabulary column
@@ -34,43 +38,48 @@ type Encoder struct {
 	idfDef   float64
 	labels   map[string]float64
 	columns  int
-	fields   []*fieldCodec // table fields, in spec order
+	fields   *tablefield.Set // table fields, in spec order
 	pool     sync.Pool
 }
 
-// NewEncoder prepares an encoder for s.
-func NewEncoder(s *Spec) (*Encoder, error) {
-	c := &s.Content
-	e := &Encoder{spec: s}
-	var err error
-	if e.analysis, err = c.Analysis(); err != nil {
-		return nil, err
-	}
-	if e.tf, err = weight.ParseTF(c.Weights.TF); err != nil {
-		return nil, err
-	}
-	if e.norm, err = weight.ParseNorm(c.Weights.Norm); err != nil {
-		return nil, err
-	}
-	idfMode, err := weight.ParseIDF(c.Weights.IDF)
+// Load loads the spec at path as spec.Load does and makes its Encoder. The
+// vocabulary's keys are checked for duplicates once, while the encoder
+// indexes them; a duplicate key is then a *spec.LoadError matching
+// spec.ErrInvalid, as with spec.Load.
+func Load(path string) (*spec.Spec, *Encoder, error) {
+	s, err := spec.LoadOptions{KeysChecked: true}.Load(path)
 	if err != nil {
+		return nil, nil, err
+	}
+	enc, err := New(s)
+	if err != nil {
+		return nil, nil, &spec.LoadError{File: path, Reason: spec.ErrInvalid, Err: err}
+	}
+	return s, enc, nil
+}
+
+// New prepares an encoder for s.
+func New(s *spec.Spec) (*Encoder, error) {
+	c := &s.Content
+	e := &Encoder{spec: s, tf: c.Weights.TF, norm: c.Weights.Norm}
+	var err error
+	if e.analysis, err = analysis.New(c); err != nil {
 		return nil, err
 	}
+	idfMode := c.Weights.IDF
 	switch c.Mode {
-	case ModeVocabulary:
+	case spec.ModeVocabulary:
 		v := c.Vocabulary
 		if v == nil {
 			return nil, fmt.Errorf("vocabulary mode without a vocabulary")
 		}
-		if e.index, err = vocab.NewIndex(v.Keys, v.Orders, e.analysis.prefixes(), wordCode); err != nil {
+		if e.index, err = vocab.NewIndex(v.Keys, v.Orders, e.analysis.Prefixes(), wordCode); err != nil {
 			return nil, err
 		}
 		e.nterms, e.orders = len(v.Keys), v.Orders
-		e.words = e.analysis.ngrams.Words
+		e.words = e.analysis.Words()
 		e.wordIDs = e.index.Packed() && e.words.On()
-		if e.unseen, err = vocab.ParseUnseen(v.Unseen); err != nil {
-			return nil, err
-		}
+		e.unseen = v.Unseen
 		e.columns = len(v.Keys) + e.unseen.Columns()
 		if idfMode != weight.IDFNone {
 			e.idf = make([]float64, e.columns)
@@ -79,7 +88,7 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 				e.idf[i] = 1
 			}
 		}
-	case ModeHashing:
+	case spec.ModeHashing:
 		h := c.Hashing
 		if h == nil {
 			return nil, fmt.Errorf("hashing mode without hashing settings")
@@ -87,7 +96,7 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 		if e.hasher, err = hashing.New(h.Width, h.Seed, h.Signed); err != nil {
 			return nil, err
 		}
-		e.words = e.analysis.ngrams.Words
+		e.words = e.analysis.Words()
 		e.columns = int(h.Width)
 		if idfMode != weight.IDFNone {
 			e.idfDef = c.Weights.IDFDefault
@@ -109,10 +118,15 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 	default:
 		return nil, fmt.Errorf("unknown mode %q", c.Mode)
 	}
-	if err := e.prepareFields(); err != nil {
+	if e.fields, err = tablefield.NewSet(c, e.columns); err != nil {
 		return nil, err
 	}
-	if c.Labels.Kind == "string" {
+	if e.hasher == nil {
+		for i := range c.Fields {
+			e.columns += c.Fields[i].Columns()
+		}
+	}
+	if c.Labels.Kind == spec.LabelsString {
 		e.labels = make(map[string]float64, len(c.Labels.Map))
 		for i, l := range c.Labels.Map {
 			e.labels[l] = float64(i + 1)
@@ -123,18 +137,16 @@ func NewEncoder(s *Spec) (*Encoder, error) {
 
 // wordCode tells whether an order code is that of a word n-gram, and of
 // how many words.
-func wordCode(code int) (int, bool) {
-	return code, code >= 1 && code <= ngram.MaxWordOrder
-}
+func wordCode(code int) (int, bool) { return ngram.Order(code).Words() }
 
 // Spec returns the spec the encoder applies.
-func (e *Encoder) Spec() *Spec { return e.spec }
+func (e *Encoder) Spec() *spec.Spec { return e.spec }
 
 // Columns is the number of columns of every row.
 func (e *Encoder) Columns() int { return e.columns }
 
 // Analysis returns the encoder's analysis chain.
-func (e *Encoder) Analysis() *Analysis { return e.analysis }
+func (e *Encoder) Analysis() *analysis.Chain { return e.analysis }
 
 // LabelError is a label the spec cannot turn into a number.
 type LabelError struct {
@@ -152,7 +164,7 @@ func (e *Encoder) Label(raw []byte, fallback *float64) (float64, error) {
 		return 0, nil
 	}
 	switch e.spec.Content.Labels.Kind {
-	case "string":
+	case spec.LabelsString:
 		if v, ok := e.labels[string(raw)]; ok {
 			return v, nil
 		}
@@ -190,15 +202,15 @@ type DocStats struct {
 // Worker encodes documents for one goroutine and gathers the run's figures.
 type Worker struct {
 	e       *Encoder
-	z       *Analyzer
+	z       *analysis.Analyzer
 	acc     *weight.Accumulator
 	h       *hashing.Hasher
 	uh      *hashing.Hasher // unseen hash:K
-	Stats   WorkerStats
+	Stats   Stats
 	doc     DocStats
 	track   bool
 	fs      fieldState
-	addFn   func([]byte, int)
+	addFn   func([]byte, ngram.Order)
 	wordsFn func(int, []byte, [][]byte, int)
 	// hashWordsFn hashes the word n-grams of a chunk (hashing mode).
 	hashWordsFn func(int, []byte, [][]byte, int)
@@ -212,17 +224,17 @@ type Worker struct {
 	_ [64]byte
 }
 
-// WorkerStats accumulates a worker's figures.
-type WorkerStats struct {
-	// Features and Unseen per order code.
-	Features [MaxOrderCode + 1]int64
-	Unseen   [MaxOrderCode + 1]int64
+// Stats accumulates a worker's figures.
+type Stats struct {
+	// Features and Unseen per n-gram order.
+	Features [ngram.MaxOrder + 1]int64
+	Unseen   [ngram.MaxOrder + 1]int64
 	// Seen marks the vocabulary columns whose keys were emitted (a bit
 	// per column; nil unless the worker tracks keys).
 	Seen []uint64
-	// UnseenKeys: distinct unseen keys (by 64-bit hash) per order code
+	// UnseenKeys: distinct unseen keys (by 64-bit hash) per n-gram order
 	// (nil unless the worker tracks keys).
-	UnseenKeys *[MaxOrderCode + 1]*hashing.Tally
+	UnseenKeys *[ngram.MaxOrder + 1]*hashing.Tally
 	// TopUnseen counts unseen keys (capped at MaxTrackedUnseen keys).
 	TopUnseen *UnseenCounts
 	// Tally is the hashing-mode collision account.
@@ -243,7 +255,7 @@ func (e *Encoder) NewWorker(track bool) *Worker {
 	if track && e.index != nil {
 		w.Stats.Seen = make([]uint64, (e.nterms+63)/64)
 		w.Stats.orders = e.orders
-		w.Stats.UnseenKeys = new([MaxOrderCode + 1]*hashing.Tally)
+		w.Stats.UnseenKeys = new([ngram.MaxOrder + 1]*hashing.Tally)
 		w.Stats.TopUnseen = NewUnseenCounts()
 	}
 	if e.hasher != nil {
@@ -259,7 +271,7 @@ func (e *Encoder) NewWorker(track bool) *Worker {
 }
 
 // Analyzer returns the worker's analyzer (for its token figures).
-func (w *Worker) Analyzer() *Analyzer { return w.z }
+func (w *Worker) Analyzer() *analysis.Analyzer { return w.z }
 
 // Encode turns one document into a row (reusing dst's storage).
 func (w *Worker) Encode(texts [][]byte, dst *weight.Row) DocStats {
@@ -328,22 +340,22 @@ func (w *Worker) wordChunk(field int, prefix []byte, tokens [][]byte, from int) 
 				ok = col >= 0
 			}
 			if ok {
-				w.seen(col, n)
+				w.seen(col, ngram.Order(n))
 				continue
 			}
 			k := ngram.WordKey(&w.key, prefix, tokens[i:i+n])
 			if n > 2 || x.OddWordKeys() {
 				if col, ok = x.Lookup(k); ok {
-					w.seen(col, n)
+					w.seen(col, ngram.Order(n))
 					continue
 				}
 			}
-			w.unseenKey(k, n)
+			w.unseenKey(k, ngram.Order(n))
 		}
 	}
 }
 
-func (w *Worker) add(key []byte, code int) {
+func (w *Worker) add(key []byte, code ngram.Order) {
 	e := w.e
 	if e.index != nil {
 		if col, ok := e.index.Lookup(key); ok {
@@ -363,13 +375,13 @@ func (w *Worker) hashWords(_ int, prefix []byte, tokens [][]byte, from int) {
 	r := w.e.words
 	for n := r.Min; n <= r.Max && n <= len(tokens); n++ {
 		for i := max(0, from-n+1); i+n <= len(tokens); i++ {
-			w.hashKey(ngram.WordKey(&w.key, prefix, tokens[i:i+n]), n)
+			w.hashKey(ngram.WordKey(&w.key, prefix, tokens[i:i+n]), ngram.Order(n))
 		}
 	}
 }
 
 // hashKey counts a key in hashing mode.
-func (w *Worker) hashKey(key []byte, code int) {
+func (w *Worker) hashKey(key []byte, code ngram.Order) {
 	e := w.e
 	w.doc.Features++
 	w.Stats.Features[code]++
@@ -411,7 +423,7 @@ func (w *Worker) TakeSums(buf []uint64) []uint64 {
 }
 
 // seen counts a key of the vocabulary, in column col.
-func (w *Worker) seen(col, code int) {
+func (w *Worker) seen(col int, code ngram.Order) {
 	w.doc.Features++
 	w.Stats.Features[code]++
 	if w.Stats.Seen != nil {
@@ -422,7 +434,7 @@ func (w *Worker) seen(col, code int) {
 
 // unseenKey counts a key the vocabulary lacks and applies the unseen-key
 // policy.
-func (w *Worker) unseenKey(key []byte, code int) {
+func (w *Worker) unseenKey(key []byte, code ngram.Order) {
 	e := w.e
 	w.doc.Features++
 	w.Stats.Features[code]++
@@ -442,7 +454,7 @@ func (w *Worker) unseenKey(key []byte, code int) {
 	}
 }
 
-func addKey(m *[MaxOrderCode + 1]*hashing.Tally, code int, sum uint64) {
+func addKey(m *[ngram.MaxOrder + 1]*hashing.Tally, code ngram.Order, sum uint64) {
 	t := m[code]
 	if t == nil {
 		t = hashing.NewTally()
@@ -453,7 +465,7 @@ func addKey(m *[MaxOrderCode + 1]*hashing.Tally, code int, sum uint64) {
 
 // Keys returns the number of distinct keys of order code emitted, and how
 // many of them were unseen (vocabulary mode, when the worker tracks keys).
-func (s *WorkerStats) Keys(code int) (keys, unseen int64) {
+func (s *Stats) Keys(code ngram.Order) (keys, unseen int64) {
 	if s.UnseenKeys != nil && s.UnseenKeys[code] != nil {
 		unseen = int64(s.UnseenKeys[code].Len())
 	}
@@ -461,7 +473,7 @@ func (s *WorkerStats) Keys(code int) (keys, unseen int64) {
 		for word != 0 {
 			b := bits.TrailingZeros64(word)
 			word &= word - 1
-			if s.orders[i*64+b] == code {
+			if ngram.Order(s.orders[i*64+b]) == code {
 				keys++
 			}
 		}
@@ -469,15 +481,15 @@ func (s *WorkerStats) Keys(code int) (keys, unseen int64) {
 	return keys + unseen, unseen
 }
 
-// Merge adds o's figures to w's.
-func (s *WorkerStats) Merge(o *WorkerStats) {
+// Merge adds o's figures to s's.
+func (s *Stats) Merge(o *Stats) {
 	for k, v := range o.Features {
 		s.Features[k] += v
 	}
 	for k, v := range o.Unseen {
 		s.Unseen[k] += v
 	}
-	mergeSets := func(dst, src *[MaxOrderCode + 1]*hashing.Tally) {
+	mergeSets := func(dst, src *[ngram.MaxOrder + 1]*hashing.Tally) {
 		for code, t := range src {
 			if t == nil {
 				continue
@@ -500,12 +512,12 @@ func (s *WorkerStats) Merge(o *WorkerStats) {
 	}
 }
 
-// Codes returns the order codes present, ascending.
-func (s *WorkerStats) Codes() []int {
-	var codes []int
+// Orders returns the n-gram orders present, ascending.
+func (s *Stats) Orders() []ngram.Order {
+	var codes []ngram.Order
 	for k, n := range s.Features {
 		if n > 0 {
-			codes = append(codes, k)
+			codes = append(codes, ngram.Order(k))
 		}
 	}
 	return codes

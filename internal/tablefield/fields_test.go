@@ -1,4 +1,4 @@
-package spec
+package tablefield_test
 
 import (
 	"errors"
@@ -9,7 +9,11 @@ import (
 	"time"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
@@ -49,39 +53,39 @@ var tableTrain = []tableRecord{
 	{"a", absent, absent, absent, "2024-01-01T12:00:00Z"},
 }
 
-func tableSettings(t *testing.T, mode string) *Settings {
+func tableSettings(t *testing.T, mode spec.Mode) *learn.Settings {
 	t.Helper()
-	s := &Settings{
-		Input:  Input{Format: "tsv", Text: []string{"text"}},
+	s := &learn.Settings{
+		Input:  spec.Input{Format: "tsv", Text: []string{"text"}},
 		Tokens: tokenize.DefaultOptions(),
 		NGrams: ngram.Config{Words: ngram.Range{Min: 1, Max: 1}},
 		Mode:   mode,
 		TF:     weight.TFCount, IDF: weight.IDFNone, Norm: weight.NormNone,
 		Cutoffs: vocab.Cutoffs{MinDocs: 2, MaxDocShare: 1},
 	}
-	if mode == ModeHashing {
-		s.Hashing = Hashing{Width: 1 << 20, Seed: 3}
+	if mode == spec.ModeHashing {
+		s.Hashing = spec.Hashing{Width: 1 << 20, Seed: 3}
 	}
-	zone, _ := ParseCategory("zone")
-	age, err := ParseNumber("age:standard", []string{"-1", "NA"})
+	zone, _ := tablefield.ParseCategory("zone")
+	age, err := tablefield.ParseNumber("age:standard", []string{"-1", "NA"})
 	if err != nil {
 		t.Fatal(err)
 	}
-	spend, err := ParseNumber("spend:log", []string{"-1", "NA"})
+	spend, err := tablefield.ParseNumber("spend:log", []string{"-1", "NA"})
 	if err != nil {
 		t.Fatal(err)
 	}
-	created, err := ParseTime("created", "")
+	created, err := tablefield.ParseTime("created", "")
 	if err != nil {
 		t.Fatal(err)
 	}
-	s.Fields = []TableField{zone, age, spend, created}
+	s.Fields = []spec.TableField{zone, age, spend, created}
 	return s
 }
 
-func learnTable(t *testing.T, s *Settings, recs []tableRecord) *Spec {
+func learnTable(t *testing.T, s *learn.Settings, recs []tableRecord) *spec.Spec {
 	t.Helper()
-	l, err := NewLearner(s)
+	l, err := learn.New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -92,7 +96,7 @@ func learnTable(t *testing.T, s *Settings, recs []tableRecord) *Spec {
 		}
 		w.Observe([][]byte{[]byte(r.text)})
 	}
-	sp, _, err := l.Finish(w, LabelsFrom(nil, false))
+	sp, _, err := l.Finish(w, learn.LabelsFrom(nil, false))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -104,7 +108,7 @@ func near(a, b float64) bool { return math.Abs(a-b) <= 1e-12*math.Max(1, math.Ab
 // TestTableFieldsFrozen checks the numbers learn freezes against a
 // computation by hand on tableTrain.
 func TestTableFieldsFrozen(t *testing.T) {
-	sp := learnTable(t, tableSettings(t, ModeVocabulary), tableTrain)
+	sp := learnTable(t, tableSettings(t, spec.ModeVocabulary), tableTrain)
 	f := sp.Content.Fields
 	// Computed by hand: case folding makes harbour 2 documents, old town
 	// 3, quay 1 (below --min-docs 2: other); "" and absent are missing.
@@ -151,8 +155,8 @@ func TestTableFieldsFrozen(t *testing.T) {
 // key "a"; zone takes 1 old town, 2 harbour, 3 other, 4 missing, 5 unseen;
 // age 6 and its indicator 7; spend 8 and 9; created 10-15 and 16.
 func TestTableFieldsRows(t *testing.T) {
-	sp := learnTable(t, tableSettings(t, ModeVocabulary), tableTrain)
-	enc, err := NewEncoder(sp)
+	sp := learnTable(t, tableSettings(t, spec.ModeVocabulary), tableTrain)
+	enc, err := encode.New(sp)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -260,43 +264,11 @@ func merge(a, b map[int]float64) map[int]float64 {
 	return out
 }
 
-// TestPeriodicZone reads a time in a named zone: 05:00 UTC on 15 March
-// 2024 is 06:00 in Oslo (CET, UTC+1, before the change to summer time on
-// the last Sunday of March, EU Directive 2000/84/EC).
-func TestPeriodicZone(t *testing.T) {
-	f, err := ParseTime("created", "Europe/Oslo")
-	if err != nil {
-		t.Fatal(err)
-	}
-	fc, err := newFieldCodec(&f)
-	if err != nil {
-		t.Fatal(err)
-	}
-	tm, miss, err := fc.when([]byte("2024-03-15T05:00:00Z"))
-	if err != nil || miss {
-		t.Fatal(err, miss)
-	}
-	p := Periodic(tm)
-	if p[0] != 1 || math.Abs(p[1]) > 1e-15 {
-		t.Errorf("hour sin, cos = %v, %v; want 1, 0", p[0], p[1])
-	}
-	// A layout without a zone is read in the field's zone.
-	f2, _ := ParseTime("d:2006-01-02 15:04", "Europe/Oslo")
-	fc2, _ := newFieldCodec(&f2)
-	tm, _, err = fc2.when([]byte("2024-03-15 06:00"))
-	if err != nil || tm.Hour() != 6 || tm.Location().String() != "Europe/Oslo" {
-		t.Errorf("%v %v", tm, err)
-	}
-	if _, err := ParseTime("x", "Mars/Olympus"); err == nil {
-		t.Error("unknown zone accepted")
-	}
-}
-
-// TestTableFieldsBadData checks that unreadable values are *FieldError
+// TestTableFieldsBadData checks that unreadable values are *tablefield.ValueError
 // values naming the field, and that nothing of such a record is counted.
 func TestTableFieldsBadData(t *testing.T) {
-	sp := learnTable(t, tableSettings(t, ModeVocabulary), tableTrain)
-	enc, _ := NewEncoder(sp)
+	sp := learnTable(t, tableSettings(t, spec.ModeVocabulary), tableTrain)
+	enc, _ := encode.New(sp)
 	w := enc.NewWorker(false)
 	obs := enc.NewFieldObserver()
 	for _, c := range []struct {
@@ -310,7 +282,7 @@ func TestTableFieldsBadData(t *testing.T) {
 	} {
 		var row weight.Row
 		_, err := w.EncodeFields([][]byte{[]byte("a")}, c.rec.values(), &row)
-		var fe *FieldError
+		var fe *tablefield.ValueError
 		if !errors.As(err, &fe) || fe.Field != c.field {
 			t.Errorf("%+v: error %v, want a FieldError for %s", c.rec, err, c.field)
 		}
@@ -321,7 +293,7 @@ func TestTableFieldsBadData(t *testing.T) {
 	if st := obs.Stats(); st[0].Docs != 0 {
 		t.Errorf("bad records counted: %+v", st[0])
 	}
-	l, _ := NewLearner(tableSettings(t, ModeVocabulary))
+	l, _ := learn.New(tableSettings(t, spec.ModeVocabulary))
 	if err := l.ObserveFields(tableRecord{"a", "x", "1", "-1.5", ""}.values()); err == nil {
 		t.Error("learner took a negative value under log")
 	}
@@ -334,7 +306,7 @@ func TestTableFieldsBadData(t *testing.T) {
 // spec twice gives the same rows; two identical learns give the same
 // fingerprint.
 func TestTableFieldsSpecRoundTrip(t *testing.T) {
-	for _, mode := range []string{ModeVocabulary, ModeHashing} {
+	for _, mode := range []spec.Mode{spec.ModeVocabulary, spec.ModeHashing} {
 		sp := learnTable(t, tableSettings(t, mode), tableTrain)
 		if again := learnTable(t, tableSettings(t, mode), tableTrain); again.Fingerprint != sp.Fingerprint {
 			t.Errorf("%s: two learns differ", mode)
@@ -343,12 +315,12 @@ func TestTableFieldsSpecRoundTrip(t *testing.T) {
 		if err := sp.Save(p); err != nil {
 			t.Fatal(err)
 		}
-		back, err := Load(p)
+		back, err := spec.Load(p)
 		if err != nil {
 			t.Fatal(err)
 		}
-		e1, _ := NewEncoder(sp)
-		e2, _ := NewEncoder(back)
+		e1, _ := encode.New(sp)
+		e2, _ := encode.New(back)
 		for _, r := range append(tableTrain, tableRecord{"dock", "pier", "99", "12", "2023-12-31T23:59:00Z"}) {
 			r1, _, err1 := e1.EncodeFields([][]byte{[]byte(r.text)}, r.values())
 			r2, _, err2 := e2.EncodeFields([][]byte{[]byte(r.text)}, r.values())
@@ -364,11 +336,11 @@ func TestTableFieldsSpecRoundTrip(t *testing.T) {
 // in the bucket of its key (hashing.Hasher, checked against xxhsum in
 // package hashing) with its value, summed with any text key there.
 func TestTableFieldsHashing(t *testing.T) {
-	sp := learnTable(t, tableSettings(t, ModeHashing), tableTrain)
+	sp := learnTable(t, tableSettings(t, spec.ModeHashing), tableTrain)
 	if g := sp.Content.Fields[0].Category; len(g.Levels) != 0 || len(g.OtherHashes) != 0 || g.MissingDocs != 2 {
 		t.Errorf("hashing mode stored levels: %+v", g)
 	}
-	enc, _ := NewEncoder(sp)
+	enc, _ := encode.New(sp)
 	row, _, err := enc.EncodeFields([][]byte{[]byte("a")}, tableRecord{"a", "Harbour", "30", absent, "2024-03-15T06:00:00Z"}.values())
 	if err != nil {
 		t.Fatal(err)
@@ -382,7 +354,7 @@ func TestTableFieldsHashing(t *testing.T) {
 	add("spend=", math.Ln2)
 	add("spend<missing>", 1)
 	for i, v := range []float64{1, 6.123233995736766e-17, -0.4338837391175581, -0.9009688679024191, 0.9552106508146316, 0.2959267013472893} {
-		add("created:"+TimeFeatures[i], v)
+		add("created:"+spec.TimeFeatures[i], v)
 	}
 	if len(row.Indices) != len(want) {
 		t.Fatalf("row %v, want %v", row, want)
@@ -397,33 +369,33 @@ func TestTableFieldsHashing(t *testing.T) {
 // TestTableFieldsRefusals: a spec with table fields cannot be extended or
 // sharded, and a tampered field is refused by Validate.
 func TestTableFieldsRefusals(t *testing.T) {
-	sp := learnTable(t, tableSettings(t, ModeVocabulary), tableTrain)
-	if _, err := NewExtendLearner(sp, vocab.DefaultCutoffs(), sp.Content.Input); err == nil {
+	sp := learnTable(t, tableSettings(t, spec.ModeVocabulary), tableTrain)
+	if _, err := learn.NewExtend(sp, vocab.DefaultCutoffs(), sp.Content.Input); err == nil {
 		t.Error("extend accepted a spec with table fields")
 	}
-	l, _ := NewLearner(tableSettings(t, ModeVocabulary))
-	if _, err := l.Shard(l.NewWorker(), Labels{}); err == nil {
+	l, _ := learn.New(tableSettings(t, spec.ModeVocabulary))
+	if _, err := l.Shard(l.NewWorker(), spec.Labels{}); err == nil {
 		t.Error("shard accepted table fields")
 	}
 	bad := *sp
-	bad.Content.Fields = copyFields(sp.Content.Fields)
+	bad.Content.Fields = spec.CloneFields(sp.Content.Fields)
 	bad.Content.Fields[1].Number.SD = -1
 	if err := bad.Validate(); err == nil {
 		t.Error("negative sd accepted")
 	}
-	bad.Content.Fields = copyFields(sp.Content.Fields)
+	bad.Content.Fields = spec.CloneFields(sp.Content.Fields)
 	bad.Content.Fields[3].Time.Zone = "Nowhere/Else"
 	if err := bad.Validate(); err == nil {
 		t.Error("unknown zone accepted")
 	}
 	// A learner that saw the text of more records than their fields.
-	l2, _ := NewLearner(tableSettings(t, ModeVocabulary))
+	l2, _ := learn.New(tableSettings(t, spec.ModeVocabulary))
 	w := l2.NewWorker()
 	w.Observe([][]byte{[]byte("a")})
-	if _, _, err := l2.Finish(w, LabelsFrom(nil, false)); err == nil {
+	if _, _, err := l2.Finish(w, learn.LabelsFrom(nil, false)); err == nil {
 		t.Error("Finish accepted records without their fields")
 	}
-	if _, err := ParseNumber("age:cube", nil); err == nil {
+	if _, err := tablefield.ParseNumber("age:cube", nil); err == nil {
 		t.Error("unknown transform accepted")
 	}
 }

@@ -1,16 +1,18 @@
-package spec
+package encode
 
 import (
 	"sort"
 
 	"github.com/bowline/bowline/hashing"
+	"github.com/bowline/bowline/internal/analysis"
+	"github.com/bowline/bowline/ngram"
 )
 
 // BucketKeys collects, for a few hashing buckets, the distinct keys that
 // fall into them: the answer to "which keys share this column". It is not
 // safe for concurrent use.
 type BucketKeys struct {
-	z     *Analyzer
+	z     *analysis.Analyzer
 	h     *hashing.Hasher
 	width uint64
 	keys  map[uint64]map[string]struct{}
@@ -19,9 +21,8 @@ type BucketKeys struct {
 
 // NewBucketKeys prepares collecting the keys of buckets (hashing mode only),
 // keeping at most limit keys per bucket.
-func (a *Analysis) NewBucketKeys(h Hashing, buckets []uint64, limit int) *BucketKeys {
-	hs, _ := hashing.New(h.Width, h.Seed, h.Signed)
-	bk := &BucketKeys{z: a.NewAnalyzer(), h: hs, width: h.Width, keys: map[uint64]map[string]struct{}{}, limit: limit}
+func (e *Encoder) NewBucketKeys(buckets []uint64, limit int) *BucketKeys {
+	bk := &BucketKeys{z: e.analysis.NewAnalyzer(), h: e.hasher.Clone(), width: e.hasher.Width, keys: map[uint64]map[string]struct{}{}, limit: limit}
 	for _, b := range buckets {
 		bk.keys[b] = map[string]struct{}{}
 	}
@@ -30,7 +31,7 @@ func (a *Analysis) NewBucketKeys(h Hashing, buckets []uint64, limit int) *Bucket
 
 // Observe analyses one document's text fields.
 func (bk *BucketKeys) Observe(texts [][]byte) {
-	bk.z.Analyze(texts, func(key []byte, _ int) {
+	bk.z.Analyze(texts, func(key []byte, _ ngram.Order) {
 		set, ok := bk.keys[hashing.BucketOf(bk.h.Sum(key), bk.width)]
 		if !ok || len(set) >= bk.limit {
 			return

@@ -1,8 +1,7 @@
-package spec
+package learn
 
 import (
 	"bufio"
-	"crypto/sha256"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -12,12 +11,13 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/bowline/bowline/internal/analysis"
 	"github.com/bowline/bowline/internal/atomicfile"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
-	"github.com/bowline/bowline/weight"
 )
 
-// Extension is the account of an index-stable refresh (NewExtendLearner).
+// Extension is the account of an index-stable refresh (NewExtend).
 type Extension struct {
 	// Parent is the fingerprint of the spec extended.
 	Parent string
@@ -33,7 +33,7 @@ type Extension struct {
 	NewLabels []string
 }
 
-// NewExtendLearner prepares an index-stable refresh of parent: the new
+// NewExtend prepares an index-stable refresh of parent: the new
 // spec takes every setting from parent except the cutoffs cut and the
 // corpus fields in; every parent column keeps its index and key (a key
 // that fails cut on the new corpus stays, marked retired); new keys that
@@ -47,15 +47,15 @@ type Extension struct {
 // relearning with them refreshes the idf). A spec whose unseen keys have
 // columns (unseen count or hash:K) is refused too: those columns come right
 // after the vocabulary, where appended keys would go.
-func NewExtendLearner(parent *Spec, cut vocab.Cutoffs, in Input) (*Learner, error) {
+func NewExtend(parent *spec.Spec, cut vocab.Cutoffs, in spec.Input) (*Learner, error) {
 	pc := &parent.Content
-	if pc.Mode != ModeVocabulary || pc.Vocabulary == nil {
+	if pc.Mode != spec.ModeVocabulary || pc.Vocabulary == nil {
 		return nil, errors.New("a hashing spec has no vocabulary columns to keep stable; learn again with the same --hash settings to refresh its idf")
 	}
 	if len(pc.Fields) > 0 {
 		return nil, errors.New("the spec has table fields whose columns follow its vocabulary, where appended keys would go, so it cannot be extended")
 	}
-	if u := pc.Vocabulary.Unseen; u != "drop" {
+	if u := pc.Vocabulary.Unseen; u.Mode != vocab.UnseenDrop {
 		return nil, fmt.Errorf("the spec puts unseen keys in columns right after its vocabulary (--unseen %s); appended keys would take those columns, so it cannot be extended", u)
 	}
 	if err := cut.Validate(); err != nil {
@@ -67,18 +67,14 @@ func NewExtendLearner(parent *Spec, cut vocab.Cutoffs, in Input) (*Learner, erro
 	c := *pc
 	c.Input = in
 	c.Docs = 0
-	c.Vocabulary = &Vocabulary{MinDocs: cut.MinDocs, MaxDocShare: cut.MaxDocShare, MaxTerms: cut.MaxTerms, Unseen: pc.Vocabulary.Unseen}
-	c.Weights = Weights{TF: pc.Weights.TF, IDF: pc.Weights.IDF, Norm: pc.Weights.Norm}
-	c.Labels = Labels{}
-	a, err := c.Analysis()
+	c.Vocabulary = &spec.Vocabulary{MinDocs: cut.MinDocs, MaxDocShare: cut.MaxDocShare, MaxTerms: cut.MaxTerms, Unseen: pc.Vocabulary.Unseen}
+	c.Weights = spec.Weights{TF: pc.Weights.TF, IDF: pc.Weights.IDF, Norm: pc.Weights.Norm}
+	c.Labels = spec.Labels{}
+	a, err := analysis.New(&c)
 	if err != nil {
 		return nil, err
 	}
-	idf, err := weight.ParseIDF(c.Weights.IDF)
-	if err != nil {
-		return nil, err
-	}
-	return &Learner{content: c, analysis: a, idf: idf, cutoffs: cut, parent: parent}, nil
+	return &Learner{content: c, analysis: a, idf: c.Weights.IDF, cutoffs: cut, parent: parent}, nil
 }
 
 // Extension returns the refresh account once Finish has run (nil when the
@@ -86,7 +82,7 @@ func NewExtendLearner(parent *Spec, cut vocab.Cutoffs, in Input) (*Learner, erro
 func (l *Learner) Extension() *Extension { return l.ext }
 
 // extend fills vv with the parent's columns followed by the appended ones.
-func (l *Learner) extend(vv *Vocabulary, counts *vocab.Counts) error {
+func (l *Learner) extend(vv *spec.Vocabulary, counts *vocab.Counts) error {
 	old := l.parent.Content.Vocabulary
 	x := &Extension{Parent: l.parent.Fingerprint, ParentKeys: len(old.Keys)}
 	all := l.cutoffs
@@ -138,26 +134,26 @@ func (l *Learner) extend(vv *Vocabulary, counts *vocab.Counts) error {
 // extendLabels keeps the parent's label numbers and appends new string
 // labels. The spec's label map must stay sorted by bytes (Validate), so a
 // new label that sorts before a parent label is refused.
-func extendLabels(parent, now Labels) (Labels, error) {
-	out := Labels{Kind: parent.Kind, Map: parent.Map, Values: now.Values, Counts: now.Counts}
+func extendLabels(parent, now spec.Labels) (spec.Labels, error) {
+	out := spec.Labels{Kind: parent.Kind, Map: parent.Map, Values: now.Values, Counts: now.Counts}
 	switch parent.Kind {
-	case "none":
-		if now.Kind != "none" {
+	case spec.LabelsNone:
+		if now.Kind != spec.LabelsNone {
 			return out, errors.New("the spec was learned without labels; the new corpus has a label field")
 		}
-	case "number":
-		if now.Kind == "string" {
+	case spec.LabelsNumber:
+		if now.Kind == spec.LabelsString {
 			for _, v := range now.Values {
 				if _, err := strconv.ParseFloat(strings.TrimSpace(v), 64); err != nil {
 					return out, fmt.Errorf("the spec's labels are numbers; the new corpus has label %q", v)
 				}
 			}
 		}
-		if now.Kind == "none" {
+		if now.Kind == spec.LabelsNone {
 			return out, errors.New("the spec was learned with labels; the new corpus has no label field")
 		}
-	case "string":
-		if now.Kind == "none" {
+	case spec.LabelsString:
+		if now.Kind == spec.LabelsNone {
 			return out, errors.New("the spec was learned with labels; the new corpus has no label field")
 		}
 		known := make(map[string]bool, len(parent.Map))
@@ -178,66 +174,6 @@ func extendLabels(parent, now Labels) (Labels, error) {
 	return out, nil
 }
 
-// SettingsDiff names the first setting in which a and b differ, as
-// "field: a-value vs b-value", or returns "" when they agree. Learned
-// numbers and cutoffs are not compared; corpus field names are compared
-// only when withInput is true.
-func SettingsDiff(a, b *Content, withInput bool) string {
-	fa, fb := SettingsFields(a, withInput), SettingsFields(b, withInput)
-	for i := range fa {
-		if fa[i].Value != fb[i].Value {
-			return fmt.Sprintf("%s: %s vs %s", fa[i].Name, fa[i].Value, fb[i].Value)
-		}
-	}
-	return ""
-}
-
-// Field is one named setting as text.
-type Field struct{ Name, Value string }
-
-// SettingsFields lists the settings of c that change rows, in a fixed
-// order, as text (the JSON names of the spec's fields, dotted). Corpus
-// field names come first when withInput is true.
-func SettingsFields(c *Content, withInput bool) []Field {
-	var f []Field
-	add := func(name string, v any) {
-		b, _ := json.Marshal(v)
-		f = append(f, Field{name, string(b)})
-	}
-	if withInput {
-		add("input.format", c.Input.Format)
-		add("input.text", c.Input.Text)
-		add("input.label", c.Input.Label)
-		add("input.id", c.Input.ID)
-		add("input.no_header", c.Input.NoHeader)
-	}
-	t := c.Tokens
-	add("tokens.unicode", t.Unicode)
-	add("tokens.case", t.Case)
-	add("tokens.accents", t.Accents)
-	add("tokens.numbers", t.Numbers)
-	add("tokens.min_len", t.MinLen)
-	add("tokens.max_len", t.MaxLen)
-	add("stop.sources", c.Stop.Sources)
-	add("stop.keep_negations", c.Stop.KeepNegations)
-	sum := sha256.Sum256([]byte(strings.Join(c.Stop.Words, "\n")))
-	f = append(f, Field{"stop.words", fmt.Sprintf("%d words (sha256 %x)", len(c.Stop.Words), sum[:4])})
-	add("stem", c.Stem)
-	add("ngrams.words", c.NGrams.Words)
-	add("ngrams.chars", c.NGrams.Chars)
-	add("mode", c.Mode)
-	if c.Vocabulary != nil {
-		add("vocabulary.unseen", c.Vocabulary.Unseen)
-	} else {
-		add("vocabulary.unseen", nil)
-	}
-	add("hashing", c.Hashing)
-	add("weights.tf", c.Weights.TF)
-	add("weights.idf", c.Weights.IDF)
-	add("weights.norm", c.Weights.Norm)
-	return f
-}
-
 // Shard is the exact counts of one part of a training corpus before any
 // cutoff, with the settings they were counted under and the label tallies:
 // what bowline learn --counts-out writes and bowline merge reads. Its file
@@ -246,18 +182,18 @@ func SettingsFields(c *Content, withInput bool) []Field {
 type Shard struct {
 	// Settings is the spec content the counts were made under, with no
 	// learned numbers and the cutoffs at their defaults.
-	Settings Content
+	Settings spec.Content
 	// Counts are the exact counts; Counts.Docs() the documents.
 	Counts *vocab.Counts
 	// Labels holds the label tallies in Values and Counts.
-	Labels Labels
+	Labels spec.Labels
 }
 
 // Shard returns the merged counts of w as a shard, instead of applying the
 // cutoffs. labels are the label tallies. The counts must be exact and the
 // learner must not extend a spec.
-func (l *Learner) Shard(w *LearnWorker, labels Labels) (*Shard, error) {
-	if l.content.Mode != ModeVocabulary {
+func (l *Learner) Shard(w *Worker, labels spec.Labels) (*Shard, error) {
+	if l.content.Mode != spec.ModeVocabulary {
 		return nil, errors.New("count shards hold vocabulary counts; hashing mode has none")
 	}
 	if l.parent != nil {
@@ -275,7 +211,7 @@ func (l *Learner) Shard(w *LearnWorker, labels Labels) (*Shard, error) {
 	def := vocab.DefaultCutoffs()
 	v.MinDocs, v.MaxDocShare, v.MaxTerms = def.MinDocs, def.MaxDocShare, def.MaxTerms
 	c.Vocabulary = &v
-	return &Shard{Settings: c, Counts: w.counts, Labels: Labels{Values: labels.Values, Counts: labels.Counts}}, nil
+	return &Shard{Settings: c, Counts: w.counts, Labels: spec.Labels{Values: labels.Values, Counts: labels.Counts}}, nil
 }
 
 // Write writes the shard in the count shard format (gzip'd JSON lines).
@@ -284,7 +220,7 @@ func (sh *Shard) Write(w io.Writer) error {
 	if err != nil {
 		return err
 	}
-	h := vocab.ShardHeader{Tool: "bowline " + ToolVersion, Settings: settings, LabelValues: sh.Labels.Values, LabelCounts: sh.Labels.Counts}
+	h := vocab.ShardHeader{Tool: "bowline " + spec.ToolVersion, Settings: settings, LabelValues: sh.Labels.Values, LabelCounts: sh.Labels.Counts}
 	return vocab.WriteShard(w, h, sh.Counts)
 }
 
@@ -316,18 +252,18 @@ func MergeShards(paths []string) (*Shard, error) {
 		if err != nil {
 			return nil, err
 		}
-		var c Content
+		var c spec.Content
 		dec := json.NewDecoder(strings.NewReader(string(h.Settings)))
 		dec.DisallowUnknownFields()
 		if err := dec.Decode(&c); err != nil {
 			return nil, &vocab.ShardError{File: p, Line: 1, Err: fmt.Errorf("settings are not a bowline spec's: %v", err)}
 		}
-		if c.Mode != ModeVocabulary || c.Vocabulary == nil {
+		if c.Mode != spec.ModeVocabulary || c.Vocabulary == nil {
 			return nil, &vocab.ShardError{File: p, Line: 1, Err: fmt.Errorf("settings are not in vocabulary mode")}
 		}
 		if out == nil {
 			out = &Shard{Settings: c, Counts: counts}
-		} else if d := SettingsDiff(&out.Settings, &c, true); d != "" {
+		} else if d := spec.SettingsDiff(&out.Settings, &c, true); d != "" {
 			return nil, fmt.Errorf("count shard %s was counted with other settings than %s: %s", p, paths[0], d)
 		}
 		for i, v := range h.LabelValues {
@@ -347,7 +283,7 @@ func MergeShards(paths []string) (*Shard, error) {
 // Learn applies cut to the shard's counts and returns the sealed spec:
 // the same spec, fingerprint included, as learning on the shards'
 // corpora in one pass with the same settings and cutoffs.
-func (sh *Shard) Learn(cut vocab.Cutoffs) (*Spec, vocab.CutReport, error) {
+func (sh *Shard) Learn(cut vocab.Cutoffs) (*spec.Spec, vocab.CutReport, error) {
 	c := sh.Settings
 	v := *c.Vocabulary
 	v.MinDocs, v.MaxDocShare, v.MaxTerms = cut.MinDocs, cut.MaxDocShare, cut.MaxTerms
@@ -355,19 +291,15 @@ func (sh *Shard) Learn(cut vocab.Cutoffs) (*Spec, vocab.CutReport, error) {
 	if err := cut.Validate(); err != nil {
 		return nil, vocab.CutReport{}, err
 	}
-	a, err := c.Analysis()
+	a, err := analysis.New(&c)
 	if err != nil {
 		return nil, vocab.CutReport{}, err
 	}
-	idf, err := weight.ParseIDF(c.Weights.IDF)
-	if err != nil {
-		return nil, vocab.CutReport{}, err
-	}
-	l := &Learner{content: c, analysis: a, idf: idf, cutoffs: cut}
+	l := &Learner{content: c, analysis: a, idf: c.Weights.IDF, cutoffs: cut}
 	hasLabel := c.Input.Label != ""
 	lab := LabelsFrom(sh.Labels.Values, hasLabel)
 	if hasLabel {
 		lab.Values, lab.Counts = sh.Labels.Values, sh.Labels.Counts
 	}
-	return l.Finish(&LearnWorker{l: l, counts: sh.Counts, docs: sh.Counts.Docs()}, lab)
+	return l.Finish(&Worker{l: l, counts: sh.Counts, docs: sh.Counts.Docs()}, lab)
 }

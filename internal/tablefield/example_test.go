@@ -1,9 +1,10 @@
-package spec_test
+package tablefield_test
 
 import (
 	"fmt"
 	"time"
 
+	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/spec"
 )
 
@@ -11,7 +12,7 @@ import (
 // 15 March 2024 was a Friday (day 4 with Monday 0) and day 75 of a leap
 // year.
 func ExamplePeriodic() {
-	p := spec.Periodic(time.Date(2024, time.March, 15, 6, 0, 0, 0, time.UTC))
+	p := tablefield.Periodic(time.Date(2024, time.March, 15, 6, 0, 0, 0, time.UTC))
 	for i, name := range spec.TimeFeatures {
 		fmt.Printf("%s %.4f\n", name, p[i])
 	}
@@ -27,12 +28,12 @@ func ExamplePeriodic() {
 // ParseNumber reads a --number argument; the --missing-value sentinels
 // come with it.
 func ExampleParseNumber() {
-	f, err := spec.ParseNumber("age:log,standard", []string{"unknown"})
+	f, err := tablefield.ParseNumber("age:log,standard", []string{"unknown"})
 	if err != nil {
 		panic(err)
 	}
 	fmt.Println(f.Name, f.Kind, f.Number.Log, f.Number.Standard, f.Number.Sentinels)
-	_, err = spec.ParseNumber("age:cube", nil)
+	_, err = tablefield.ParseNumber("age:cube", nil)
 	fmt.Println(err)
 	// Output:
 	// age number true true [unknown]

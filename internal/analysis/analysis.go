@@ -1,37 +1,17 @@
-package spec
+// Package analysis turns a spec's text settings into the token chain (tokenizer, stop words, stemmer, n-grams) and emits each document's feature keys.
+package analysis
 
 import (
-	"fmt"
-
 	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
 	"github.com/bowline/bowline/tokenize"
 )
 
-// MaxOrderCode is the largest order code (character n-grams of order 32).
-const MaxOrderCode = 100 + 32
-
-// OrderCode packs an n-gram kind and order into the int stored with each
-// vocabulary key: word n-grams are n, character n-grams 100+n.
-func OrderCode(kind ngram.Kind, n int) int {
-	if kind == ngram.Char {
-		return 100 + n
-	}
-	return n
-}
-
-// OrderLabel is the report label of an order code ("w1", "c3").
-func OrderLabel(code int) string {
-	if code > 100 {
-		return ngram.OrderLabel(ngram.Char, code-100)
-	}
-	return ngram.OrderLabel(ngram.Word, code)
-}
-
-// Analysis is the frozen text analysis chain of a spec: tokenizer settings,
-// stop set, stemmer language and n-gram ranges. It is safe for concurrent
-// use; each goroutine gets its own Analyzer from NewAnalyzer.
-type Analysis struct {
+// A Chain is the frozen text analysis of a spec: tokenizer settings, stop
+// set, stemmer language and n-gram ranges. It is safe for concurrent use;
+// each goroutine gets its own Analyzer from NewAnalyzer.
+type Chain struct {
 	tokOpts tokenize.Options
 	stop    *stopwords.Set
 	stem    string
@@ -39,9 +19,9 @@ type Analysis struct {
 	fields  []string
 }
 
-// Analysis builds the spec's analysis chain.
-func (c *Content) Analysis() (*Analysis, error) {
-	var a Analysis
+// New builds the analysis chain of c.
+func New(c *spec.Content) (*Chain, error) {
+	var a Chain
 	var err error
 	if a.tokOpts, err = c.Tokens.Options(); err != nil {
 		return nil, err
@@ -56,22 +36,16 @@ func (c *Content) Analysis() (*Analysis, error) {
 		// The stored words are already normalized; no second pass.
 		a.stop = stopwords.NewSet(c.Stop.Words, nil, false)
 	}
-	if a.ngrams.Words, err = ngram.ParseWords(c.NGrams.Words); err != nil {
-		return nil, fmt.Errorf("word n-grams: %w", err)
-	}
-	if a.ngrams.Chars, err = ngram.ParseChars(c.NGrams.Chars); err != nil {
-		return nil, fmt.Errorf("character n-grams: %w", err)
-	}
-	if !a.ngrams.Words.On() && !a.ngrams.Chars.On() {
-		return nil, fmt.Errorf("no features: word and character n-grams are both off")
+	if a.ngrams, err = c.NGrams.Config(); err != nil {
+		return nil, err
 	}
 	a.fields = c.Input.Text
 	return &a, nil
 }
 
-// prefixes returns the key prefix of each text field ("field|"), or nil
+// Prefixes returns the key prefix of each text field ("field|"), or nil
 // with a single text field, whose keys have none.
-func (a *Analysis) prefixes() []string {
+func (a *Chain) Prefixes() []string {
 	if len(a.fields) <= 1 {
 		return nil
 	}
@@ -82,34 +56,14 @@ func (a *Analysis) prefixes() []string {
 	return p
 }
 
-// Options converts the stored token settings.
-func (t Tokens) Options() (tokenize.Options, error) {
-	var o tokenize.Options
-	var err error
-	if o.Unicode, err = tokenize.ParseNormalization(t.Unicode); err != nil {
-		return o, err
-	}
-	if o.Case, err = tokenize.ParseCase(t.Case); err != nil {
-		return o, err
-	}
-	if o.Accents, err = tokenize.ParseAccents(t.Accents); err != nil {
-		return o, err
-	}
-	if o.Numbers, err = tokenize.ParseNumbers(t.Numbers); err != nil {
-		return o, err
-	}
-	o.MinLen, o.MaxLen = t.MinLen, t.MaxLen
-	return o, o.Validate()
-}
+// Words is the range of word n-gram orders (off when none).
+func (a *Chain) Words() ngram.Range { return a.ngrams.Words }
 
-// TokensFrom stores tokenizer options as flag words.
-func TokensFrom(o tokenize.Options) Tokens {
-	return Tokens{Unicode: o.Unicode.String(), Case: o.Case.String(), Accents: o.Accents.String(),
-		Numbers: o.Numbers.String(), MinLen: o.MinLen, MaxLen: o.MaxLen}
-}
+// TokenOptions are the tokenizer settings.
+func (a *Chain) TokenOptions() tokenize.Options { return a.tokOpts }
 
-// AnalyzerStats are the token figures one Analyzer collected.
-type AnalyzerStats struct {
+// Stats are the token figures one Analyzer collected.
+type Stats struct {
 	Tokenizer   tokenize.Stats
 	StopDropped int64
 }
@@ -131,10 +85,10 @@ type Analyzer struct {
 }
 
 // NewAnalyzer returns a fresh Analyzer for one goroutine.
-func (a *Analysis) NewAnalyzer() *Analyzer {
+func (a *Chain) NewAnalyzer() *Analyzer {
 	tok, err := tokenize.New(a.tokOpts)
 	if err != nil {
-		panic(err) // validated in Analysis
+		panic(err) // validated in New
 	}
 	z := &Analyzer{tok: tok, ngr: ngram.NewBuilder(a.ngrams)}
 	if a.stem != "" {
@@ -153,11 +107,10 @@ func (a *Analysis) NewAnalyzer() *Analyzer {
 
 // Analyze calls fn for every feature key of the document whose text fields
 // are texts (in the order of the spec's text fields). key is only valid
-// during fn; code is the key's order code (see OrderCode).
-func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, code int)) {
-	emit := func(key []byte, kind ngram.Kind, order int) { fn(key, OrderCode(kind, order)) }
+// during fn; o is the key's n-gram order.
+func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, o ngram.Order)) {
 	z.run(texts, func(_ int, prefix []byte, tokens [][]byte, from int) {
-		z.ngr.EmitFrom(prefix, tokens, from, emit)
+		z.ngr.EmitFrom(prefix, tokens, from, fn)
 	})
 }
 
@@ -172,11 +125,10 @@ func (z *Analyzer) Analyze(texts [][]byte, fn func(key []byte, code int)) {
 // from, left to right (ngram.WordKey forms their keys). The tokens are
 // only valid during the call and must not be modified or appended to:
 // each reaches, within its capacity, over the next ones.
-func (z *Analyzer) AnalyzeTokens(texts [][]byte, words func(field int, prefix []byte, tokens [][]byte, from int), chars func(key []byte, code int)) {
-	emit := func(key []byte, kind ngram.Kind, order int) { chars(key, OrderCode(kind, order)) }
+func (z *Analyzer) AnalyzeTokens(texts [][]byte, words func(field int, prefix []byte, tokens [][]byte, from int), chars func(key []byte, o ngram.Order)) {
 	z.run(texts, func(field int, prefix []byte, tokens [][]byte, from int) {
 		words(field, prefix, tokens, from)
-		z.ngr.EmitCharsFrom(prefix, tokens, from, emit)
+		z.ngr.EmitCharsFrom(prefix, tokens, from, chars)
 	})
 }
 
@@ -251,8 +203,8 @@ func (z *Analyzer) flush(field int, prefix []byte, ctx int, final bool, sink fun
 }
 
 // Stats returns the figures collected so far.
-func (z *Analyzer) Stats() AnalyzerStats {
-	s := AnalyzerStats{Tokenizer: z.tok.Stats()}
+func (z *Analyzer) Stats() Stats {
+	s := Stats{Tokenizer: z.tok.Stats()}
 	if z.filter != nil {
 		s.StopDropped = z.filter.Total()
 	}

@@ -1,41 +1,22 @@
-package spec
+package learn
 
 import (
-	"bytes"
 	"fmt"
 	"path/filepath"
 	"sort"
 	"strings"
 	"testing"
 
-	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/testkit"
+	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )
 
-// demoDocs returns n invented Pellwick documents: texts and team labels.
-func demoDocs(t *testing.T, n int) (texts, labels []string) {
-	t.Helper()
-	var buf bytes.Buffer
-	o := demo.DefaultOptions()
-	o.Docs = n
-	if err := demo.WriteTSV(&buf, o); err != nil {
-		t.Fatal(err)
-	}
-	for i, line := range strings.Split(strings.TrimSpace(buf.String()), "\n") {
-		if i == 0 {
-			continue // header: id channel team sentiment text
-		}
-		f := strings.Split(line, "\t")
-		texts = append(texts, f[4])
-		labels = append(labels, f[2])
-	}
-	return texts, labels
-}
-
 // observe counts texts with l, as pipeline.Learn does, and returns the
 // merged worker and the label tallies.
-func observe(l *Learner, texts, labels []string) (*LearnWorker, Labels) {
+func observe(l *Learner, texts, labels []string) (*Worker, spec.Labels) {
 	w := l.NewWorker()
 	tally := map[string]int64{}
 	for i, t := range texts {
@@ -55,9 +36,9 @@ func observe(l *Learner, texts, labels []string) (*LearnWorker, Labels) {
 	return w, lab
 }
 
-func learnOn(t *testing.T, s *Settings, texts, labels []string) *Spec {
+func learnOn(t *testing.T, s *Settings, texts, labels []string) *spec.Spec {
 	t.Helper()
-	l, err := NewLearner(s)
+	l, err := New(s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -69,9 +50,9 @@ func learnOn(t *testing.T, s *Settings, texts, labels []string) *Spec {
 	return sp
 }
 
-func extendOn(t *testing.T, parent *Spec, cut vocab.Cutoffs, texts, labels []string) (*Spec, *Extension) {
+func extendOn(t *testing.T, parent *spec.Spec, cut vocab.Cutoffs, texts, labels []string) (*spec.Spec, *Extension) {
 	t.Helper()
-	l, err := NewExtendLearner(parent, cut, parent.Content.Input)
+	l, err := NewExtend(parent, cut, parent.Content.Input)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -89,8 +70,8 @@ func extendOn(t *testing.T, parent *Spec, cut vocab.Cutoffs, texts, labels []str
 // restricted to the old columns, is the old spec's row (raw counts, so
 // that the values themselves must agree, not only the keys).
 func TestExtendModelView(t *testing.T) {
-	texts, labels := demoDocs(t, 1200)
-	s := settings(ModeVocabulary)
+	texts, labels := testkit.DemoTexts(t, 1200)
+	s := settings(spec.ModeVocabulary)
 	s.TF, s.IDF, s.Norm = weight.TFCount, weight.IDFNone, weight.NormNone
 	s.Cutoffs.MinDocs = 2
 	old := learnOn(t, s, texts[:600], labels[:600])
@@ -109,11 +90,11 @@ func TestExtendModelView(t *testing.T) {
 			t.Fatalf("column %d: %q became %q", i, ov.Keys[i], nv.Keys[i])
 		}
 	}
-	oe, err := NewEncoder(old)
+	oe, err := encode.New(old)
 	if err != nil {
 		t.Fatal(err)
 	}
-	ne, err := NewEncoder(ext)
+	ne, err := encode.New(ext)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -142,13 +123,13 @@ func TestExtendModelView(t *testing.T) {
 // appended keys follow bowline's column order and --max-terms limits only
 // them; the spec saves and loads.
 func TestExtendCounts(t *testing.T) {
-	texts, labels := demoDocs(t, 800)
-	s := settings(ModeVocabulary)
+	texts, labels := testkit.DemoTexts(t, 800)
+	s := settings(spec.ModeVocabulary)
 	old := learnOn(t, s, append([]string{"zyzzogeton sighting"}, texts[:400]...), append([]string{"bikes"}, labels[:400]...))
 	cut := vocab.Cutoffs{MinDocs: 2, MaxDocShare: 0.5, MaxTerms: 7}
 	ext, x := extendOn(t, old, cut, texts[400:], labels[400:])
 	// The new corpus counted on its own, for the expected figures.
-	l, _ := NewLearner(s)
+	l, _ := New(s)
 	w, _ := observe(l, texts[400:], labels[400:])
 	fresh := w.Counts()
 	nv := ext.Content.Vocabulary
@@ -188,7 +169,7 @@ func TestExtendCounts(t *testing.T) {
 	if err := ext.Save(p); err != nil {
 		t.Fatal(err)
 	}
-	back, err := Load(p)
+	back, err := spec.Load(p)
 	if err != nil || back.Fingerprint != ext.Fingerprint || back.Parent != old.Fingerprint {
 		t.Fatalf("load: %v", err)
 	}
@@ -200,37 +181,37 @@ func TestExtendCounts(t *testing.T) {
 }
 
 func TestExtendLabels(t *testing.T) {
-	parent := Labels{Kind: "string", Map: []string{"app", "bikes", "billing"}}
-	got, err := extendLabels(parent, Labels{Kind: "string", Values: []string{"bikes", "docks"}, Counts: []int64{3, 4}})
+	parent := spec.Labels{Kind: "string", Map: []string{"app", "bikes", "billing"}}
+	got, err := extendLabels(parent, spec.Labels{Kind: "string", Values: []string{"bikes", "docks"}, Counts: []int64{3, 4}})
 	if err != nil || strings.Join(got.Map, " ") != "app bikes billing docks" || strings.Join(got.Values, " ") != "bikes docks" {
 		t.Errorf("labels %+v, %v", got, err)
 	}
-	if _, err := extendLabels(parent, Labels{Kind: "string", Values: []string{"apps"}}); err == nil || !strings.Contains(err.Error(), `"apps"`) {
+	if _, err := extendLabels(parent, spec.Labels{Kind: "string", Values: []string{"apps"}}); err == nil || !strings.Contains(err.Error(), `"apps"`) {
 		t.Errorf("a label sorting inside the map: %v", err)
 	}
-	if _, err := extendLabels(Labels{Kind: "number"}, Labels{Kind: "string", Values: []string{"1", "x"}}); err == nil {
+	if _, err := extendLabels(spec.Labels{Kind: "number"}, spec.Labels{Kind: "string", Values: []string{"1", "x"}}); err == nil {
 		t.Error("a string label for a numeric spec was accepted")
 	}
-	if _, err := extendLabels(Labels{Kind: "none"}, Labels{Kind: "number"}); err == nil {
+	if _, err := extendLabels(spec.Labels{Kind: spec.LabelsNone}, spec.Labels{Kind: "number"}); err == nil {
 		t.Error("labels for an unlabeled spec were accepted")
 	}
 }
 
 func TestExtendRefuses(t *testing.T) {
-	hs := learn(t, settings(ModeHashing))
-	if _, err := NewExtendLearner(hs, vocab.DefaultCutoffs(), hs.Content.Input); err == nil || !strings.Contains(err.Error(), "hashing") {
+	hs := learnSpec(t, settings(spec.ModeHashing))
+	if _, err := NewExtend(hs, vocab.DefaultCutoffs(), hs.Content.Input); err == nil || !strings.Contains(err.Error(), "hashing") {
 		t.Errorf("hashing spec: %v", err)
 	}
-	s := settings(ModeVocabulary)
+	s := settings(spec.ModeVocabulary)
 	s.Unseen = vocab.Unseen{Mode: vocab.UnseenCount}
-	us := learn(t, s)
-	if _, err := NewExtendLearner(us, vocab.DefaultCutoffs(), us.Content.Input); err == nil || !strings.Contains(err.Error(), "unseen") {
+	us := learnSpec(t, s)
+	if _, err := NewExtend(us, vocab.DefaultCutoffs(), us.Content.Input); err == nil || !strings.Contains(err.Error(), "unseen") {
 		t.Errorf("unseen count spec: %v", err)
 	}
-	vs := learn(t, settings(ModeVocabulary))
+	vs := learnSpec(t, settings(spec.ModeVocabulary))
 	in := vs.Content.Input
 	in.Text = []string{"title", "body"}
-	if _, err := NewExtendLearner(vs, vocab.DefaultCutoffs(), in); err == nil {
+	if _, err := NewExtend(vs, vocab.DefaultCutoffs(), in); err == nil {
 		t.Error("two text fields for a one-field spec were accepted")
 	}
 }
@@ -239,15 +220,15 @@ func TestExtendRefuses(t *testing.T) {
 // corpus counted in three shards, saved, read back and merged, give the
 // same spec, fingerprint included.
 func TestShardsMergeToSameSpec(t *testing.T) {
-	texts, labels := demoDocs(t, 900)
-	s := settings(ModeVocabulary)
+	texts, labels := testkit.DemoTexts(t, 900)
+	s := settings(spec.ModeVocabulary)
 	cut := vocab.Cutoffs{MinDocs: 2, MaxDocShare: 0.9, MaxTerms: 500}
 	s.Cutoffs = cut
 	whole := learnOn(t, s, texts, labels)
 	dir := t.TempDir()
 	var paths []string
 	for i, r := range [][2]int{{0, 250}, {250, 700}, {700, 900}} {
-		l, _ := NewLearner(s)
+		l, _ := New(s)
 		w, lab := observe(l, texts[r[0]:r[1]], labels[r[0]:r[1]])
 		sh, err := l.Shard(w, lab)
 		if err != nil {
@@ -273,12 +254,12 @@ func TestShardsMergeToSameSpec(t *testing.T) {
 		t.Fatalf("merged %s, one pass %s\n%.300s\n%.300s", got.ShortFingerprint(), whole.ShortFingerprint(), a, b)
 	}
 	// A shard counted with other settings is refused, naming the field.
-	s2 := settings(ModeVocabulary)
+	s2 := settings(spec.ModeVocabulary)
 	s2.Tokens.Case = 0
 	if s2.Tokens.Case == s.Tokens.Case {
 		s2.Tokens.MaxLen = 20
 	}
-	l, _ := NewLearner(s2)
+	l, _ := New(s2)
 	w, lab := observe(l, texts[:10], labels[:10])
 	sh, _ := l.Shard(w, lab)
 	odd := filepath.Join(dir, "odd.counts")
@@ -286,23 +267,5 @@ func TestShardsMergeToSameSpec(t *testing.T) {
 	_, err = MergeShards([]string{paths[0], odd})
 	if err == nil || !strings.Contains(err.Error(), "tokens.") || !strings.Contains(err.Error(), "odd.counts") {
 		t.Errorf("odd shard: %v", err)
-	}
-}
-
-func TestSettingsDiff(t *testing.T) {
-	a, _ := settings(ModeVocabulary).Content()
-	b, _ := settings(ModeVocabulary).Content()
-	if d := SettingsDiff(&a, &b, true); d != "" {
-		t.Errorf("equal settings differ: %s", d)
-	}
-	b.NGrams.Words = "1-3"
-	b.Weights.Norm = "l1"
-	if d := SettingsDiff(&a, &b, true); d != `ngrams.words: "1-2" vs "1-3"` {
-		t.Errorf("first difference %q", d)
-	}
-	b = a
-	b.Input.Format = "csv"
-	if SettingsDiff(&a, &b, false) != "" || SettingsDiff(&a, &b, true) == "" {
-		t.Error("input fields compared when they should not be, or not when they should")
 	}
 }
