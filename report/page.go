@@ -53,15 +53,32 @@ func (p *Page) WriteHTML(w io.Writer) error {
 	return nil
 }
 
+// pageCSS lays out the page, its headings, tables (class "pairs" for
+// label/value tables, class "num" for numeric cells), figures holding
+// inline SVG, notes and cautions.
+const pageCSS = `body { font-family: sans-serif; margin: 2em auto; max-width: 60em; padding: 0 1em; color: #222; }
+h1 { font-size: 1.5em; }
+h2 { font-size: 1.2em; border-bottom: 1px solid #ccc; padding-bottom: .2em; margin-top: 2em; }
+table { border-collapse: collapse; margin: .8em 0; }
+caption { text-align: left; font-style: italic; padding-bottom: .3em; }
+th, td { padding: .15em .8em .15em 0; text-align: left; vertical-align: top; }
+thead th { border-bottom: 1px solid #ccc; }
+table.pairs th { font-weight: normal; color: #555; }
+td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
+figure { margin: 1em 0; }
+figure svg { max-width: 100%; height: auto; }
+figcaption { font-size: .9em; color: #555; }
+ul.notes { color: #555; }
+p.caution { border-left: 4px solid #c60; padding: .4em .8em; background: #fdf3e7; }
+`
+
 var pageTemplate = template.Must(template.New("page").Parse(`<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
 <title>{{.Title}}</title>
 <style>
-` + PageCSS + `ul.notes { color: #555; }
-p.caution { border-left: 4px solid #c60; padding: .4em .8em; background: #fdf3e7; }
-</style>
+` + pageCSS + `</style>
 </head>
 <body>
 <h1>{{.Title}}</h1>
