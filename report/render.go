@@ -21,7 +21,8 @@ import (
 // is Page.
 
 // Table is a small grid of cells under a header; Num marks right-aligned
-// (numeric) columns. Caption, when set, is shown above the grid.
+// (numeric) columns and has one entry per column. Caption, when set, is
+// shown above the grid.
 type Table struct {
 	Caption string
 	Head    []string
