@@ -1,5 +1,6 @@
 // Package report holds the figures of one bowline run and renders them as
-// text for people, JSON for machines and HTML with plots.
+// text for people, JSON for machines and HTML with plots, on the page
+// skeleton and plots that bowline's other HTML pages use too.
 package report
 
 // Figures are everything one run of learn, encode or drift reports. JSON

@@ -10,100 +10,30 @@ import (
 // sections and tables as WriteText, with plots drawn as inline SVG. The
 // page loads nothing from elsewhere and needs no script.
 func (f *Figures) WriteHTML(w io.Writer) error {
-	secs := f.sections()
-	page := htmlPage{Title: "bowline report"}
+	page := Page{Title: "bowline report", Sections: f.sections()}
 	if f.Command != "" {
 		page.Title = "bowline " + f.Command + " report"
 	}
-	for _, s := range secs {
-		hs := htmlSection{section: s}
-		plots, err := f.plotsFor(s.Title)
+	for i := range page.Sections {
+		s := &page.Sections[i]
+		figs, err := f.plotsFor(s.Title)
 		if err != nil {
 			return err
 		}
-		hs.Plots = plots
-		page.Sections = append(page.Sections, hs)
+		s.Figures = figs
 	}
-	if err := pageTemplate.Execute(w, page); err != nil {
-		return fmt.Errorf("report: writing HTML: %w", err)
-	}
-	return nil
+	return page.WriteHTML(w)
 }
-
-type htmlPage struct {
-	Title    string
-	Sections []htmlSection
-}
-
-type htmlSection struct {
-	section
-	Plots []htmlPlot
-}
-
-type htmlPlot struct {
-	Caption string
-	// SVG is markup drawn by vgsvg, which escapes every string it draws.
-	SVG template.HTML
-}
-
-var pageTemplate = template.Must(template.New("page").Parse(`<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<title>{{.Title}}</title>
-<style>
-` + PageCSS + `p.caution { border-left: 4px solid #c60; padding: .4em .8em; background: #fdf3e7; }
-</style>
-</head>
-<body>
-<h1>{{.Title}}</h1>
-{{- range .Sections}}
-<section>
-<h2>{{.Title}}</h2>
-{{- if .Pairs}}
-<table class="pairs">
-{{- range .Pairs}}
-<tr><th>{{.Label}}</th><td>{{.Value}}</td></tr>
-{{- end}}
-</table>
-{{- end}}
-{{- range .Tables}}{{$num := .Num}}
-<table>
-{{- if .Caption}}
-<caption>{{.Caption}}</caption>
-{{- end}}
-<thead><tr>{{range $i, $h := .Head}}<th{{if index $num $i}} class="num"{{end}}>{{$h}}</th>{{end}}</tr></thead>
-<tbody>
-{{- range .Rows}}
-<tr>{{range $i, $c := .}}<td{{if index $num $i}} class="num"{{end}}>{{$c}}</td>{{end}}</tr>
-{{- end}}
-</tbody>
-</table>
-{{- end}}
-{{- range .Plots}}
-<figure>
-{{.SVG}}
-<figcaption>{{.Caption}}</figcaption>
-</figure>
-{{- end}}
-{{- if .Note}}
-<p class="caution">{{.Note}}</p>
-{{- end}}
-</section>
-{{- end}}
-</body>
-</html>
-`))
 
 // plotsFor draws the plots that belong to the section with the given title.
-func (f *Figures) plotsFor(title string) ([]htmlPlot, error) {
-	var out []htmlPlot
+func (f *Figures) plotsFor(title string) ([]Figure, error) {
+	var out []Figure
 	add := func(caption string, svg template.HTML, err error) error {
 		if err != nil {
 			return fmt.Errorf("report: drawing %q: %w", caption, err)
 		}
 		if svg != "" {
-			out = append(out, htmlPlot{Caption: caption, SVG: svg})
+			out = append(out, Figure{Caption: caption, SVG: svg})
 		}
 		return nil
 	}

@@ -16,12 +16,13 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 )
 
-// This file holds the rendering pieces that every bowline report page
-// shares: aligned text tables, the page style sheet and bar plots drawn as
-// inline SVG.
+// This file holds the rendering pieces that every bowline report shares:
+// aligned text tables and bar plots drawn as inline SVG. The page skeleton
+// is Page.
 
 // Table is a small grid of cells under a header; Num marks right-aligned
-// (numeric) columns. Caption, when set, is shown above the grid.
+// (numeric) columns and has one entry per column. Caption, when set, is
+// shown above the grid.
 type Table struct {
 	Caption string
 	Head    []string
@@ -81,24 +82,6 @@ func (t Table) WriteText(w io.Writer) error {
 }
 
 func runeLen(s string) int { return len([]rune(s)) }
-
-// PageCSS is the style sheet shared by bowline's HTML pages, to be placed
-// inside a <style> element: page layout, headings, tables (class "pairs"
-// for label/value tables, class "num" for numeric cells) and figures
-// holding inline SVG. Pages append their own rules after it.
-const PageCSS = `body { font-family: sans-serif; margin: 2em auto; max-width: 60em; padding: 0 1em; color: #222; }
-h1 { font-size: 1.5em; }
-h2 { font-size: 1.2em; border-bottom: 1px solid #ccc; padding-bottom: .2em; margin-top: 2em; }
-table { border-collapse: collapse; margin: .8em 0; }
-caption { text-align: left; font-style: italic; padding-bottom: .3em; }
-th, td { padding: .15em .8em .15em 0; text-align: left; vertical-align: top; }
-thead th { border-bottom: 1px solid #ccc; }
-table.pairs th { font-weight: normal; color: #555; }
-td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
-figure { margin: 1em 0; }
-figure svg { max-width: 100%; height: auto; }
-figcaption { font-size: .9em; color: #555; }
-`
 
 // Palette holds the colors of bowline's plots, in the order series use
 // them: blue, orange, green.

@@ -10,30 +10,16 @@ import (
 )
 
 // The text and HTML renderings share one view of the figures: a list of
-// sections, each with label/value pairs and tables. Building it once keeps
-// both renderings showing the same numbers with the same formatting.
-
-// section is one titled block of the report.
-type section struct {
-	Title  string
-	Pairs  []pair
-	Tables []Table
-	// Note is a caution shown under the section (HTML only).
-	Note string
-}
-
-// pair is one labelled value.
-type pair struct {
-	Label string
-	Value string
-}
+// sections, each with label/value pairs and tables, and a caution that only
+// the page shows. Building it once keeps both renderings showing the same
+// numbers with the same formatting.
 
 // topCount is how many stop words the run section lists inline.
 const topCount = 5
 
 // sections builds the view of f. Sections without content are left out.
-func (f *Figures) sections() []section {
-	var out []section
+func (f *Figures) sections() []Section {
+	var out []Section
 	if s := f.runSection(); len(s.Pairs) > 0 {
 		out = append(out, s)
 	}
@@ -61,11 +47,11 @@ func (f *Figures) sections() []section {
 	return out
 }
 
-func (f *Figures) runSection() section {
-	s := section{Title: "run"}
+func (f *Figures) runSection() Section {
+	s := Section{Title: "run"}
 	add := func(label, value string) {
 		if value != "" {
-			s.Pairs = append(s.Pairs, pair{label, value})
+			s.Pairs = append(s.Pairs, Pair{label, value})
 		}
 	}
 	add("command", f.Command)
@@ -103,10 +89,10 @@ func (f *Figures) runSection() section {
 	return s
 }
 
-func (f *Figures) oovSection() section {
+func (f *Figures) oovSection() Section {
 	o := f.OOV
-	s := section{Title: "out-of-vocabulary"}
-	s.Pairs = []pair{
+	s := Section{Title: "out-of-vocabulary"}
+	s.Pairs = []Pair{
 		{"token share", Percent(o.TokenShare) + "  (" + itoa(o.Unseen) + " of " + itoa(o.Features) + " features)"},
 		{"type share", Percent(o.TypeShare) + "  (" + itoa(o.UnseenKeys) + " of " + itoa(o.Keys) + " distinct keys)"},
 	}
@@ -124,16 +110,16 @@ func (f *Figures) oovSection() section {
 	}
 	if len(o.TopUnseen) > 0 {
 		s.Tables = append(s.Tables, countTable("top unseen keys", "key", o.TopUnseen, 0))
-		s.Note = caution
+		s.Caution = caution
 	}
 	return s
 }
 
-func (f *Figures) collisionSection() section {
+func (f *Figures) collisionSection() Section {
 	c := f.Collisions
-	s := section{Title: "collisions"}
+	s := Section{Title: "collisions"}
 	rm, re := rates(c.Rate, c.ExpectedRate)
-	s.Pairs = []pair{
+	s.Pairs = []Pair{
 		{"buckets", width(c.Width)},
 		{"distinct keys", itoa(c.Keys)},
 		{"collision rate", rm + "  expected " + re},
@@ -145,15 +131,15 @@ func (f *Figures) collisionSection() section {
 		if i == 0 {
 			label = "crowded buckets"
 		}
-		s.Pairs = append(s.Pairs, pair{label, "column " + itoa(b.Column) + ": " + strings.Join(b.Names, ", ")})
+		s.Pairs = append(s.Pairs, Pair{label, "column " + itoa(b.Column) + ": " + strings.Join(b.Names, ", ")})
 	}
 	return s
 }
 
-func (f *Figures) sparsitySection() section {
+func (f *Figures) sparsitySection() Section {
 	p := *f.Sparsity
-	s := section{Title: "sparsity"}
-	s.Pairs = []pair{
+	s := Section{Title: "sparsity"}
+	s.Pairs = []Pair{
 		{"rows x columns", itoa(p.Rows) + " x " + itoa(p.Columns)},
 		{"non-zeros", itoa(p.NNZ)},
 		{"per row", "mean " + strconv.FormatFloat(p.MeanNNZ, 'f', 1, 64) + "  max " + itoa(p.MaxNNZ)},
@@ -174,10 +160,10 @@ func (f *Figures) sparsitySection() section {
 	return s
 }
 
-func (f *Figures) vocabSection() section {
+func (f *Figures) vocabSection() Section {
 	v := f.Vocabulary
-	s := section{Title: "vocabulary"}
-	s.Pairs = []pair{
+	s := Section{Title: "vocabulary"}
+	s.Pairs = []Pair{
 		{"keys seen", itoa(v.Seen)},
 		{"kept", join(itoa(v.Kept), share(v.Kept, v.Seen))},
 		{"cut by --min-docs", itoa(v.BelowMinDocs)},
@@ -193,29 +179,29 @@ func (f *Figures) vocabSection() section {
 	}
 	if len(v.TopTerms) > 0 {
 		s.Tables = append(s.Tables, countTable("top terms by document count", "term", v.TopTerms, 0))
-		s.Note = caution
+		s.Caution = caution
 	}
 	return s
 }
 
-func (f *Figures) labelSection() section {
+func (f *Figures) labelSection() Section {
 	var total int64
 	for _, c := range f.Labels {
 		total += c.Count
 	}
-	return section{Title: "labels", Tables: []Table{countTable("", "label", f.Labels, total)}}
+	return Section{Title: "labels", Tables: []Table{countTable("", "label", f.Labels, total)}}
 }
 
-func (f *Figures) throughputSection() section {
+func (f *Figures) throughputSection() Section {
 	t := f.Throughput
-	s := section{Title: "throughput"}
-	s.Pairs = []pair{
+	s := Section{Title: "throughput"}
+	s.Pairs = []Pair{
 		{"speed", strconv.FormatFloat(t.MBPerSec, 'f', 2, 64) + " MB/s  " + strconv.FormatFloat(t.DocsPerSec, 'f', 0, 64) + " docs/s"},
 		{"read", itoa(t.Bytes) + " bytes"},
 		{"elapsed", elapsed(t.Seconds)},
 	}
 	if t.Workers > 0 {
-		s.Pairs = append(s.Pairs, pair{"workers", strconv.Itoa(t.Workers)})
+		s.Pairs = append(s.Pairs, Pair{"workers", strconv.Itoa(t.Workers)})
 	}
 	return s
 }
@@ -348,8 +334,8 @@ func elapsed(sec float64) string {
 
 // fieldSection tabulates the table fields: one table for all fields
 // (missing share), one for categories and one for numbers.
-func (f *Figures) fieldSection() section {
-	s := section{Title: "table fields"}
+func (f *Figures) fieldSection() Section {
+	s := Section{Title: "table fields"}
 	all := Table{Caption: "per field", Head: []string{"field", "kind", "docs", "missing", "missing share"},
 		Num: []bool{false, false, true, true, true}}
 	cats := Table{Caption: "categories", Head: []string{"field", "levels", "seen", "other", "other share", "unseen", "unseen share"},

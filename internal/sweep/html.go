@@ -2,7 +2,6 @@ package sweep
 
 import (
 	"fmt"
-	"html/template"
 	"image/color"
 	"io"
 	"math"
@@ -22,33 +21,32 @@ import (
 // and the crowded buckets. The page loads nothing from elsewhere and has
 // no script.
 func (r *Result) WriteHTML(w io.Writer) error {
-	page := htmlPage{Title: "bowline sweep: " + r.Train}
 	v := r.Vocabulary
-	page.Facts = []fact{
-		{"training corpus", fmt.Sprintf("%s: %d docs, %d feature occurrences, %d distinct keys", r.Train, r.Docs, r.Features, r.DistinctKeys)},
-		{"vocabulary", fmt.Sprintf("%d terms kept (%s of occurrences); memory %s = weights %s + index %s (%d bytes per entry, an estimate, plus the key bytes)",
+	facts := report.Section{Pairs: []report.Pair{
+		{Label: "training corpus", Value: fmt.Sprintf("%s: %d docs, %d feature occurrences, %d distinct keys", r.Train, r.Docs, r.Features, r.DistinctKeys)},
+		{Label: "vocabulary", Value: fmt.Sprintf("%d terms kept (%s of occurrences); memory %s = weights %s + index %s (%d bytes per entry, an estimate, plus the key bytes)",
 			v.Terms, pct(v.KeptShare), bytesText(v.Bytes), bytesText(v.ModelBytes), bytesText(v.IndexBytes), r.IndexEntryBytes)},
-		{"hashing", fmt.Sprintf("seed %d, signed %v; model memory = width × 8 bytes × %d weight vector(s)", r.Seed, r.Signed, r.Classes)},
-	}
+		{Label: "hashing", Value: fmt.Sprintf("seed %d, signed %v; model memory = width × 8 bytes × %d weight vector(s)", r.Seed, r.Signed, r.Classes)},
+	}}
 	if r.Holdout != "" && v.Eval != nil {
 		f := fmt.Sprintf("%s: %d docs; L2-regularized logistic regression, C = %g", r.Holdout, r.HoldoutDocs, r.C)
 		if v.HoldoutOOVShare != nil {
 			f += fmt.Sprintf("; vocabulary OOV share %s", pct(*v.HoldoutOOVShare))
 		}
-		page.Facts = append(page.Facts, fact{"held out", f})
+		facts.Pairs = append(facts.Pairs, report.Pair{Label: "held out", Value: f})
 	}
 	if len(r.Labels) > 0 {
-		page.Facts = append(page.Facts, fact{"labels", strings.Join(r.Labels, ", ")})
+		facts.Pairs = append(facts.Pairs, report.Pair{Label: "labels", Value: strings.Join(r.Labels, ", ")})
 	}
-	plots := []struct {
+	plots := report.Section{Title: "plots"}
+	for _, pl := range []struct {
 		caption string
 		draw    func() (*plot.Plot, error)
 	}{
 		{"Collision rate: share of distinct training keys whose bucket holds another key, measured (points) and expected under uniform hashing, 1 − (1 − 1/m)^(n−1) (line).", r.collisionPlot},
 		{"Held-out accuracy of the logistic regression on each width's rows (points); the vocabulary's accuracy is the dashed line.", r.accuracyPlot},
 		{"Memory: hashing model weights, width × 8 bytes per weight vector (points); the vocabulary's weights plus its key index is the dashed line. Log scale.", r.memoryPlot},
-	}
-	for _, pl := range plots {
+	} {
 		p, err := pl.draw()
 		if err != nil {
 			return fmt.Errorf("sweep: drawing plot: %w", err)
@@ -60,92 +58,44 @@ func (r *Result) WriteHTML(w io.Writer) error {
 		if err != nil {
 			return fmt.Errorf("sweep: drawing plot: %w", err)
 		}
-		page.Plots = append(page.Plots, htmlPlot{Caption: pl.caption, SVG: svg})
+		plots.Figures = append(plots.Figures, report.Figure{Caption: pl.caption, SVG: svg})
 	}
-	page.Head, page.Rows = r.table()
-	page.Note = "collide: share of distinct keys sharing a bucket; expected: 1 − (1 − 1/m)^(n−1); shared occ.: share of feature occurrences in a shared bucket; memory: weights (plus the index for the vocabulary)."
+	head, rows := r.table()
+	num := make([]bool, len(head))
+	for i := range num {
+		num[i] = true
+	}
+	table := report.Section{Title: "table", Tables: []report.Table{{Head: head, Num: num, Rows: rows}},
+		Notes: []string{"collide: share of distinct keys sharing a bucket; expected: 1 − (1 − 1/m)^(n−1); shared occ.: share of feature occurrences in a shared bucket; memory: weights (plus the index for the vocabulary)."}}
+	page := report.Page{Title: "bowline sweep: " + r.Train, Sections: []report.Section{facts, plots, table}}
 	if e := r.Explain; e != nil {
-		page.ExplainWidth = hashing.FormatWidth(e.Width)
-		page.Explain = e.Buckets
-		page.HasExplain = true
+		page.Sections = append(page.Sections, r.explainSection(e))
 	}
-	return pageTemplate.Execute(w, page)
+	return page.WriteHTML(w)
 }
 
-type fact struct{ Label, Value string }
-
-type htmlPlot struct {
-	Caption string
-	// SVG is markup drawn by vgsvg, which escapes every string it draws.
-	SVG template.HTML
+// explainSection lists the most crowded buckets at the explained width,
+// each with the keys sharing it and their occurrences.
+func (r *Result) explainSection(e *Explain) report.Section {
+	s := report.Section{Title: "most crowded buckets at width " + hashing.FormatWidth(e.Width)}
+	if len(e.Buckets) == 0 {
+		s.Notes = []string{"No bucket holds two keys at this width."}
+		return s
+	}
+	t := report.Table{Head: []string{"bucket", "keys", "occurrences", "keys sharing it (occurrences)"}, Num: make([]bool, 4)}
+	for _, b := range e.Buckets {
+		var keys strings.Builder
+		for i, k := range b.Keys {
+			if i > 0 {
+				keys.WriteString(", ")
+			}
+			fmt.Fprintf(&keys, "%q (%d)", k.Key, k.Count)
+		}
+		t.Rows = append(t.Rows, []string{fmt.Sprint(b.Bucket), fmt.Sprint(len(b.Keys)), fmt.Sprint(b.Occurrences), keys.String()})
+	}
+	s.Tables = []report.Table{t}
+	return s
 }
-
-type htmlPage struct {
-	Title        string
-	Facts        []fact
-	Plots        []htmlPlot
-	Head         []string
-	Rows         [][]string
-	Note         string
-	HasExplain   bool
-	ExplainWidth string
-	Explain      []Bucket
-}
-
-var pageTemplate = template.Must(template.New("page").Parse(`<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<title>{{.Title}}</title>
-<style>
-` + report.PageCSS + `body { max-width: 62em; }
-table.facts th { font-weight: normal; color: #555; }
-table.sweep td, table.sweep th { text-align: right; font-variant-numeric: tabular-nums; }
-table.sweep tr.vocab td { font-weight: bold; }
-p.note { font-size: .9em; color: #555; }
-</style>
-</head>
-<body>
-<h1>{{.Title}}</h1>
-<table class="facts">
-{{- range .Facts}}
-<tr><th>{{.Label}}</th><td>{{.Value}}</td></tr>
-{{- end}}
-</table>
-<h2>plots</h2>
-{{- range .Plots}}
-<figure>
-{{.SVG}}
-<figcaption>{{.Caption}}</figcaption>
-</figure>
-{{- end}}
-<h2>table</h2>
-<table class="sweep">
-<thead><tr>{{range .Head}}<th>{{.}}</th>{{end}}</tr></thead>
-<tbody>
-{{- range $i, $r := .Rows}}
-<tr{{if eq $i 0}} class="vocab"{{end}}>{{range $r}}<td>{{.}}</td>{{end}}</tr>
-{{- end}}
-</tbody>
-</table>
-<p class="note">{{.Note}}</p>
-{{- if .HasExplain}}
-<h2>most crowded buckets at width {{.ExplainWidth}}</h2>
-{{- if not .Explain}}
-<p>No bucket holds two keys at this width.</p>
-{{- end}}
-<table>
-<thead><tr><th>bucket</th><th>keys</th><th>occurrences</th><th>keys sharing it (occurrences)</th></tr></thead>
-<tbody>
-{{- range .Explain}}
-<tr><td>{{.Bucket}}</td><td>{{len .Keys}}</td><td>{{.Occurrences}}</td><td>{{range $i, $k := .Keys}}{{if $i}}, {{end}}<code>{{$k.Key}}</code> ({{$k.Count}}){{end}}</td></tr>
-{{- end}}
-</tbody>
-</table>
-{{- end}}
-</body>
-</html>
-`))
 
 var blue, orange, green = report.Palette[0], report.Palette[1], report.Palette[2]
 
