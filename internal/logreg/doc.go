@@ -7,7 +7,9 @@
 //
 // with no bias term unless Options.Bias is set (liblinear's -B). Two classes
 // make one problem; more classes make one problem per class against the
-// rest. Problems are solved with limited-memory BFGS under a fixed iteration
-// budget and a fixed gradient tolerance, on one goroutine, so the same
-// dataset and options always give the same model, bit for bit.
+// rest. Problems are solved from w = 0 with gonum's limited-memory BFGS
+// (gonum.org/v1/gonum/optimize, optimize.LBFGS, with a Moré–Thuente line
+// search) under a fixed iteration budget and a fixed gradient tolerance,
+// one evaluation at a time, so the same dataset and options always give
+// the same model, bit for bit.
 package logreg

@@ -226,11 +226,17 @@ func compact(d *Dataset, bias float64) *matrix {
 	return x
 }
 
-// problem is one binary objective over the compact rows.
+// problem is one binary objective over the compact rows. It keeps the
+// value and gradient at the last w it saw, so it serves one caller at a
+// time.
 type problem struct {
 	x *matrix
 	y []float64
 	c float64
+
+	at []float64 // the w of f and g; nil before the first evaluation
+	f  float64
+	g  []float64
 }
 
 // log1pexp returns log(1 + exp(t)) without overflow.
@@ -250,11 +256,21 @@ func sigmoid(t float64) float64 {
 	return e / (1 + e)
 }
 
-// eval returns the objective at w and stores its gradient in g:
-// w + C·Σ −y·σ(−y·wᵀx)·x. Rows are visited in order, so the sums are the
-// same on every run.
-func (p *problem) eval(w, g []float64) float64 {
+// evaluate sets p.f and p.g to the objective and its gradient at w,
+// unless they already hold them for the same w, bit for bit: the line
+// search asks for the value and then the gradient at one point. The
+// gradient is w + C·Σ −y·σ(−y·wᵀx)·x. Rows are visited in order, so the
+// sums are the same on every run.
+func (p *problem) evaluate(w []float64) {
+	if p.at != nil && sameBits(p.at, w) {
+		return
+	}
+	if p.at == nil {
+		p.at = make([]float64, len(w))
+		p.g = make([]float64, len(w))
+	}
 	x := p.x
+	g := p.g
 	var reg, loss float64
 	for i, v := range w {
 		reg += v * v
@@ -272,13 +288,42 @@ func (p *problem) eval(w, g []float64) float64 {
 			g[x.idx[j]] += s * x.val[j]
 		}
 	}
-	return 0.5*reg + p.c*loss
+	p.f = 0.5*reg + p.c*loss
+	copy(p.at, w)
+}
+
+// sameBits reports whether a and b hold the same float64 bit patterns.
+func sameBits(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i, v := range a {
+		if math.Float64bits(v) != math.Float64bits(b[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// value returns the objective at w.
+func (p *problem) value(w []float64) float64 {
+	p.evaluate(w)
+	return p.f
+}
+
+// gradient stores the objective's gradient at w in g.
+func (p *problem) gradient(g, w []float64) {
+	p.evaluate(w)
+	copy(g, p.g)
 }
 
 func solve(x *matrix, y []float64, o Options) (w []float64, f float64, iters int, err error) {
 	p := &problem{x: x, y: y, c: o.C}
 	w = make([]float64, x.dim)
-	f, iters = minimize(p.eval, w, o.Tolerance, o.MaxIterations)
+	f, iters, err = minimize(p, w, o.Tolerance, o.MaxIterations)
+	if err != nil {
+		return nil, 0, 0, err
+	}
 	if math.IsNaN(f) || math.IsInf(f, 0) {
 		return nil, 0, 0, errors.New("learner: the objective is not finite; are the row values very large?")
 	}

@@ -211,3 +211,24 @@ func TestBias(t *testing.T) {
 		t.Errorf("P(class 1) = %v, want about 0.75", p[1])
 	}
 }
+
+// TestIterationBudget: with a tolerance no run reaches, each problem stops
+// after exactly MaxIterations iterations, and the objective has fallen
+// below its value at w = 0, C·n·ln 2.
+func TestIterationBudget(t *testing.T) {
+	tr, te := demoSplit(t, 600)
+	a, _ := encodeTSV(t, tr, te, "channel", 2)
+	d := readRows(t, "train", a, 0)
+	for _, n := range []int{1, 2, 5} {
+		m, err := logreg.Train(d, logreg.Options{MaxIterations: n, Tolerance: 1e-300})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(m.Iterations) != 1 || m.Iterations[0] != n {
+			t.Errorf("budget %d: iterations %v", n, m.Iterations)
+		}
+		if start := float64(len(d.Rows)) * math.Ln2; !(m.Objectives[0] < start) {
+			t.Errorf("budget %d: objective %v, not below %v at w = 0", n, m.Objectives[0], start)
+		}
+	}
+}
