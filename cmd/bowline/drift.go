@@ -73,9 +73,8 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer rej.abort()
-	reject := rej.reject()
 	bar := newProgress(rf.progress, r.Size(), stderr, "drift")
-	res, err := drift.Compare(s, r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: bar.set, Reject: reject})
+	res, err := drift.Compare(s, r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: bar.set, Rejects: rej.rejects()})
 	bar.finish()
 	if err != nil {
 		return err

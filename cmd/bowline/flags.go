@@ -133,15 +133,6 @@ type rejectsFile struct {
 	*pipeline.Rejects
 }
 
-// reject is the skip function for readers outside Learn and Encode (nil
-// without --on-error skip).
-func (r *rejectsFile) reject() func(error, []byte) error {
-	if rj := r.rejects(); rj != nil {
-		return rj.Add
-	}
-	return nil
-}
-
 func (r *rejectsFile) rejects() *pipeline.Rejects {
 	if r == nil {
 		return nil

@@ -121,7 +121,6 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer rej.abort()
-	reject := rej.reject()
 	var hr *corpus.Reader
 	if holdout != "" {
 		hopts, err := in.Options(holdout, nil, c.Given)
@@ -134,7 +133,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		defer hr.Close()
 	}
 	res, err := sweep.Run(r, path, hr, holdout, sweep.Options{Settings: st, Widths: ws, Seed: an.Seed, Signed: an.Signed,
-		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew, Reject: reject})
+		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew, Rejects: rej.rejects()})
 	if err != nil {
 		return err
 	}

@@ -8,7 +8,6 @@ import (
 	"runtime"
 	"slices"
 	"sort"
-	"sync"
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
@@ -41,9 +40,9 @@ type Options struct {
 	// Progress, when not nil, is called from the reading goroutine with
 	// the bytes read so far.
 	Progress func(bytesRead int64)
-	// Reject, when not nil, takes each record that cannot be read (with
+	// Rejects, when not nil, takes each record that cannot be read (with
 	// the record as stored) instead of ending the run (--on-error skip).
-	Reject func(err error, raw []byte) error
+	Rejects *pipeline.Rejects
 }
 
 // Result is what Compare found. JSON field names are stable: scripts
@@ -244,56 +243,16 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 	for i := range workers {
 		workers[i] = newWorker(sh, an.NewAnalyzer())
 	}
-	labels := map[string]int64{}
-	var labeled, unlabeled int64
-	hasLabel := false
-
-	work := make(chan *batch, nw)
-	free := make(chan *batch, 2*nw)
-	for i := 0; i < 2*nw; i++ {
-		free <- &batch{}
-	}
-	var wg sync.WaitGroup
-	for _, w := range workers {
-		wg.Add(1)
-		go func(w *worker) {
-			defer wg.Done()
-			for b := range work {
-				for _, texts := range b.texts {
-					w.doc(texts)
-				}
-				free <- b
-			}
-		}(w)
-	}
 	fobs, err := encode.NewFieldObserver(s)
 	if err != nil {
 		return nil, fmt.Errorf("drift: %w", err)
 	}
-	b := <-free
-	b.reset()
-	for {
-		if !r.Scan() {
-			if err := r.Err(); err != nil && o.Reject != nil {
-				raw := r.Raw()
-				if r.Skip() {
-					if werr := o.Reject(err, raw); werr != nil {
-						return nil, werr
-					}
-					continue
-				}
-			}
-			break
-		}
-		rec := r.Record()
+	labels := map[string]int64{}
+	var labeled, unlabeled int64
+	hasLabel := false
+	check := func(rec *corpus.Record) error {
 		if err := observeFields(fobs, rec, len(c.Fields), o.Name); err != nil {
-			if o.Reject == nil || !isFieldError(err) {
-				return nil, err
-			}
-			if werr := o.Reject(err, r.Raw()); werr != nil {
-				return nil, werr
-			}
-			continue
+			return err
 		}
 		if rec.Label != nil {
 			hasLabel = true
@@ -304,28 +263,11 @@ func Compare(s *spec.Spec, r *corpus.Reader, o Options) (*Result, error) {
 				labels[string(rec.Label)]++
 			}
 		}
-		b.add(rec.Text)
-		res.Docs++
-		if b.full() {
-			b.seal()
-			work <- b
-			b = <-free
-			b.reset()
-			if o.Progress != nil {
-				o.Progress(r.BytesRead())
-			}
-		}
+		return nil
 	}
-	if len(b.offs) > 0 {
-		b.seal()
-		work <- b
-	}
-	close(work)
-	wg.Wait()
-	if o.Progress != nil {
-		o.Progress(r.BytesRead())
-	}
-	if err := r.Err(); err != nil {
+	res.Docs, err = pipeline.Scan(r, pipeline.ScanOptions{Workers: nw, Name: o.Name, Text: len(c.Input.Text), Fields: len(c.Fields),
+		Check: check, Progress: o.Progress, Rejects: o.Rejects}, func(w int, texts [][]byte) { workers[w].doc(texts) })
+	if err != nil {
 		return nil, err
 	}
 
@@ -390,51 +332,6 @@ func newShared(c *spec.Content) (*shared, error) {
 		return nil, fmt.Errorf("drift: unknown mode %q", c.Mode)
 	}
 	return sh, nil
-}
-
-// batch holds copies of records' text fields for a worker.
-type batch struct {
-	arena []byte
-	offs  []int // per record: index into ends of its first field
-	ends  []int // end offset of every field in arena
-	flat  [][]byte
-	texts [][][]byte
-}
-
-const (
-	batchRecords = 512
-	batchBytes   = 1 << 20
-)
-
-func (b *batch) reset() {
-	b.arena, b.offs, b.ends = b.arena[:0], b.offs[:0], b.ends[:0]
-}
-
-func (b *batch) add(texts [][]byte) {
-	b.offs = append(b.offs, len(b.ends))
-	for _, t := range texts {
-		b.arena = append(b.arena, t...)
-		b.ends = append(b.ends, len(b.arena))
-	}
-}
-
-func (b *batch) full() bool { return len(b.offs) >= batchRecords || len(b.arena) >= batchBytes }
-
-func (b *batch) seal() {
-	b.flat = b.flat[:0]
-	start := 0
-	for _, e := range b.ends {
-		b.flat = append(b.flat, b.arena[start:e:e])
-		start = e
-	}
-	b.texts = b.texts[:0]
-	for i, f := range b.offs {
-		to := len(b.ends)
-		if i+1 < len(b.offs) {
-			to = b.offs[i+1]
-		}
-		b.texts = append(b.texts, b.flat[f:to:to])
-	}
 }
 
 // unseenStat counts one unseen key.

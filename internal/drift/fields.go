@@ -1,7 +1,6 @@
 package drift
 
 import (
-	"errors"
 	"fmt"
 	"strconv"
 
@@ -24,11 +23,6 @@ func observeFields(o *tablefield.Observer, rec *corpus.Record, n int, name strin
 		return &pipeline.RecordError{File: name, Line: rec.Line, Err: err}
 	}
 	return nil
-}
-
-func isFieldError(err error) bool {
-	var fe *tablefield.ValueError
-	return errors.As(err, &fe)
 }
 
 // fieldSection tabulates the table fields as a drift signal: missing

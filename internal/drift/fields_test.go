@@ -2,6 +2,7 @@ package drift
 
 import (
 	"bytes"
+	"io"
 	"math"
 	"strings"
 	"testing"
@@ -70,12 +71,13 @@ func TestFieldDrift(t *testing.T) {
 		t.Errorf("renderings lack the field figures:\n%s", text.String())
 	}
 	// A number that cannot be read ends the comparison naming the line,
-	// or goes to Reject.
+	// or goes to Rejects.
 	if _, err := Compare(s, fieldReader(t, "text\tzone\tage\ndock\tpier\tfifty\n"), Options{Name: "new.tsv"}); err == nil || !strings.Contains(err.Error(), `new.tsv:2: field "age"`) {
 		t.Errorf("bad number: %v", err)
 	}
-	var rejected int
-	res, err = Compare(s, fieldReader(t, "text\tzone\tage\ndock\tpier\tfifty\nbike\tquay\t30\n"), Options{Reject: func(error, []byte) error { rejected++; return nil }})
+	rj := &pipeline.Rejects{W: io.Discard}
+	res, err = Compare(s, fieldReader(t, "text\tzone\tage\ndock\tpier\tfifty\nbike\tquay\t30\n"), Options{Rejects: rj})
+	rejected := rj.N
 	if err != nil || rejected != 1 || res.Docs != 1 || res.Fields[1].Number.Values != 1 {
 		t.Errorf("reject: %v, %d rejected, %d docs", err, rejected, res.Docs)
 	}

@@ -58,27 +58,10 @@ func Encode(r *corpus.Reader, enc *encode.Encoder, out io.Writer, o EncodeOption
 	if o.Base != 0 && o.Base != 1 {
 		o.Base = 1
 	}
-	// Each worker reads a batch (one at a time, in order), encodes it and
-	// hands it to the ordered commit, which writes every batch that is
-	// next in order; no goroutine only reads or only writes. So --workers
-	// N keeps N cores busy, and a batch is written from the cache of the
-	// core that encoded it, most of the time.
-	nbatch := nw * 3
-	free := make(chan *batch, nbatch)
-	for i := 0; i < nbatch; i++ {
-		free <- &batch{}
-	}
-	stop := make(chan struct{})
-	var stopOnce sync.Once
-	halt := func() { stopOnce.Do(func() { close(stop) }) }
-
 	ntext := len(enc.Spec().Content.Input.Text)
 	ntable := len(enc.Spec().Content.Fields)
-	nfield := ntext + ntable
 	obs := enc.NewFieldObserver()
-	var readMu sync.Mutex // guards br and readErr
-	var readErr error
-	br := &batchReader{r: r, nfield: nfield, rj: o.Rejects, onRecord: func(rec *corpus.Record) error {
+	br := &batchReader{r: r, nfield: ntext + ntable, rj: o.Rejects, onRecord: func(rec *corpus.Record) error {
 		if o.Progress != nil {
 			o.Progress(r.BytesRead())
 		}
@@ -87,22 +70,11 @@ func Encode(r *corpus.Reader, enc *encode.Encoder, out io.Writer, o EncodeOption
 		}
 		return observeFields(o.Name, rec, ntable, obs.Observe)
 	}}
-	// read fills b with the next batch; false at the end of the corpus,
-	// after a reading error (kept for the end), or once the run stops.
-	read := func(b *batch) bool {
-		readMu.Lock()
-		defer readMu.Unlock()
-		select {
-		case <-stop:
-			return false
-		default:
-		}
-		ok, err := br.fill(b)
-		if err != nil {
-			readErr = err
-		}
-		return ok
-	}
+	// Each worker encodes the batch it read and hands it to the ordered
+	// commit, which writes every batch that is next in order: so a batch
+	// is written from the cache of the core that encoded it, most of the
+	// time.
+	p := newPool(br, nw*3)
 
 	// Hashing mode: the run keeps one collision tally. Each worker looks
 	// its batch's key sums up in it (Tally.Unknown) and hands over only
@@ -145,12 +117,12 @@ func Encode(r *corpus.Reader, enc *encode.Encoder, out io.Writer, o EncodeOption
 			next++
 			if nb.err != nil {
 				firstErr = nb.err
-				halt()
+				p.halt()
 				break
 			}
 			if _, err := bw.Write(nb.out); err != nil {
 				firstErr = err
-				halt()
+				p.halt()
 				break
 			}
 			if tally != nil {
@@ -159,41 +131,28 @@ func Encode(r *corpus.Reader, enc *encode.Encoder, out io.Writer, o EncodeOption
 			rows += int64(len(nb.lines))
 			inBytes += nb.bytes
 			st.merge(&nb.st)
-			free <- nb // never blocks: free holds every batch
+			p.release(nb)
 		}
 	}
 
-	var wg sync.WaitGroup
-	for _, w := range workers {
-		wg.Add(1)
-		go func(w *encode.Worker) {
-			defer wg.Done()
-			var row weight.Row
-			for {
-				var b *batch
-				select {
-				case b = <-free:
-				case <-stop:
-					return
-				}
-				if !read(b) {
-					free <- b
-					return
-				}
-				encodeBatch(w, enc, b, &row, o, ntext)
-				b.sums = w.TakeSums(b.sums)
-				if tally != nil {
-					b.sums = tally.Unknown(b.sums)
-				}
-				commit(b)
-			}
-		}(w)
+	// Each worker's row buffer, padded off the next one's cache lines.
+	type rowBuf struct {
+		weight.Row
+		_ [64]byte
 	}
-	wg.Wait()
-	halt()
+	bufs := make([]rowBuf, nw)
+	p.run(nw, func(i int, b *batch) {
+		w := workers[i]
+		encodeBatch(w, enc, b, &bufs[i].Row, o, ntext)
+		b.sums = w.TakeSums(b.sums)
+		if tally != nil {
+			b.sums = tally.Unknown(b.sums)
+		}
+		commit(b)
+	})
 	readBytes := r.BytesRead()
 	if firstErr == nil {
-		firstErr = readErr
+		firstErr = p.err()
 	}
 	if firstErr != nil {
 		return nil, firstErr

@@ -71,20 +71,12 @@ func learnCorpus(r *corpus.Reader, l *learn.Learner, o LearnOptions, shard bool)
 	if bounded {
 		nb = nw + 1 // fewer batches in flight under a memory limit
 	}
-	free := make(chan *batch, nb)
-	for i := 0; i < nb; i++ {
-		free <- &batch{}
-	}
 	c := l.Content()
 	ntext, ntable := len(c.Input.Text), len(c.Fields)
 	hasLabel := c.Input.Label != ""
 	labelCount := map[string]int64{}
 	var labelErr error
 
-	// Each worker reads the next batch itself, under readMu, in order (see
-	// Encode).
-	var readMu sync.Mutex // guards br and readErr
-	var readErr error
 	br := &batchReader{r: r, nfield: ntext + ntable, rj: o.Rejects, onRecord: func(rec *corpus.Record) error {
 		if o.Progress != nil {
 			o.Progress(r.BytesRead())
@@ -105,20 +97,11 @@ func learnCorpus(r *corpus.Reader, l *learn.Learner, o LearnOptions, shard bool)
 		}
 		return nil
 	}}
-	read := func(b *batch) bool {
-		readMu.Lock()
-		defer readMu.Unlock()
-		ok, err := br.fill(b)
-		if err != nil {
-			readErr = err
-		}
-		return ok
-	}
+	p := newPool(br, nb)
 
 	workers := make([]*learn.Worker, nw)
 	var docs, empty, inBytes, emitted int64
 	var mu sync.Mutex
-	var wg sync.WaitGroup
 
 	// With a key limit, batches' counts meet in input order.
 	var total *learn.Worker
@@ -130,12 +113,12 @@ func learnCorpus(r *corpus.Reader, l *learn.Learner, o LearnOptions, shard bool)
 			defer close(mergeDone)
 			pending := map[int]part{}
 			next := 0
-			for p := range parts {
-				pending[p.b.seq] = p
+			for pt := range parts {
+				pending[pt.b.seq] = pt
 				for q, ok := pending[next]; ok; q, ok = pending[next] {
 					delete(pending, next)
 					total.Merge(q.w)
-					free <- q.b
+					p.release(q.b)
 					next++
 				}
 			}
@@ -145,42 +128,33 @@ func learnCorpus(r *corpus.Reader, l *learn.Learner, o LearnOptions, shard bool)
 	}
 	for i := range workers {
 		workers[i] = l.NewWorker()
-		wg.Add(1)
-		go func(w *learn.Worker) {
-			defer wg.Done()
-			for {
-				b := <-free
-				if !read(b) {
-					free <- b
-					return
-				}
-				var e, n int64
-				for _, texts := range b.texts {
-					k := w.Observe(texts[:ntext])
-					if k == 0 {
-						e++
-					}
-					n += int64(k)
-				}
-				mu.Lock()
-				docs += int64(len(b.lines))
-				empty += e
-				inBytes += b.bytes
-				emitted += n
-				mu.Unlock()
-				if bounded {
-					parts <- part{w.Detach(), b}
-				} else {
-					free <- b
-				}
-			}
-		}(workers[i])
 	}
-	wg.Wait()
+	p.run(nw, func(i int, b *batch) {
+		w := workers[i]
+		var e, n int64
+		for _, texts := range b.texts {
+			k := w.Observe(texts[:ntext])
+			if k == 0 {
+				e++
+			}
+			n += int64(k)
+		}
+		mu.Lock()
+		docs += int64(len(b.lines))
+		empty += e
+		inBytes += b.bytes
+		emitted += n
+		mu.Unlock()
+		if bounded {
+			parts <- part{w.Detach(), b}
+		} else {
+			p.release(b)
+		}
+	})
 	close(parts)
 	<-mergeDone
-	if readErr != nil {
-		return nil, nil, nil, readErr
+	if err := p.err(); err != nil {
+		return nil, nil, nil, err
 	}
 	if labelErr != nil {
 		return nil, nil, nil, labelErr

@@ -145,7 +145,9 @@ type Rejects struct {
 // MaxRejectErrors is how many error messages Rejects keeps.
 const MaxRejectErrors = 10
 
-func (rj *Rejects) add(err error, raw []byte) error {
+// Add records one skipped record: err says why, raw is the record as
+// stored in the file.
+func (rj *Rejects) Add(err error, raw []byte) error {
 	rj.N++
 	if len(rj.Errors) < MaxRejectErrors {
 		rj.Errors = append(rj.Errors, err.Error())
@@ -189,7 +191,7 @@ func (br *batchReader) fill(b *batch) (bool, error) {
 				br.done = true
 				return false, err
 			}
-			if werr := br.rj.add(err, raw); werr != nil {
+			if werr := br.rj.Add(err, raw); werr != nil {
 				br.done = true
 				return false, werr
 			}
@@ -203,7 +205,7 @@ func (br *batchReader) fill(b *batch) (bool, error) {
 					br.done = true
 					return false, err
 				}
-				if werr := br.rj.add(err, br.r.Raw()); werr != nil {
+				if werr := br.rj.Add(err, br.r.Raw()); werr != nil {
 					br.done = true
 					return false, werr
 				}

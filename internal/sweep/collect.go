@@ -86,15 +86,15 @@ func (c *collector) add(key []byte, o ngram.Order) {
 }
 
 // read collects every record of r.
-func (c *collector) read(r *corpus.Reader, name string, withLabels bool, reject func(error, []byte) error) (*docSet, error) {
+func (c *collector) read(r *corpus.Reader, name string, withLabels bool, rj *pipeline.Rejects) (*docSet, error) {
 	d := &docSet{name: name, start: []int{0}}
 	c.cur = d
 	for {
 		if !r.Scan() {
-			if err := r.Err(); err != nil && reject != nil {
+			if err := r.Err(); err != nil && rj != nil {
 				raw := r.Raw()
 				if r.Skip() {
-					if werr := reject(err, raw); werr != nil {
+					if werr := rj.Add(err, raw); werr != nil {
 						return nil, werr
 					}
 					continue
@@ -103,8 +103,8 @@ func (c *collector) read(r *corpus.Reader, name string, withLabels bool, reject 
 			break
 		}
 		rec := r.Record()
-		if withLabels && len(rec.Label) == 0 && reject != nil {
-			if err := reject(&pipeline.RecordError{File: name, Line: rec.Line, Err: fmt.Errorf("label field is empty")}, r.Raw()); err != nil {
+		if withLabels && len(rec.Label) == 0 && rj != nil {
+			if err := rj.Add(&pipeline.RecordError{File: name, Line: rec.Line, Err: fmt.Errorf("label field is empty")}, r.Raw()); err != nil {
 				return nil, err
 			}
 			continue

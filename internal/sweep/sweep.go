@@ -49,10 +49,10 @@ type Options struct {
 	// ExplainWidth (0: none). ExplainWidth 0 means the widest width.
 	Explain      int
 	ExplainWidth uint64
-	// Reject, when not nil, takes each record that cannot be read or has
+	// Rejects, when not nil, takes each record that cannot be read or has
 	// an empty label (with the record as stored) instead of ending the run
 	// (--on-error skip).
-	Reject func(err error, raw []byte) error
+	Rejects *pipeline.Rejects
 }
 
 // Result is everything a sweep measured. Field names in JSON are stable.
@@ -217,7 +217,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 	hasLabel := s.Input.Label != ""
 	t := &keyTable{ids: map[string]int32{}}
 	c := &collector{t: t, z: an.NewAnalyzer(), h: h, counts: vocab.NewCounts(), train: true}
-	tr, err := c.read(train, trainName, hasLabel, o.Reject)
+	tr, err := c.read(train, trainName, hasLabel, o.Rejects)
 	if err != nil {
 		return nil, err
 	}
@@ -228,7 +228,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 	var te *docSet
 	if holdout != nil {
 		c.train = false
-		if te, err = c.read(holdout, holdoutName, hasLabel, o.Reject); err != nil {
+		if te, err = c.read(holdout, holdoutName, hasLabel, o.Rejects); err != nil {
 			return nil, err
 		}
 	}
