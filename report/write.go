@@ -7,8 +7,17 @@ import (
 	"strings"
 )
 
+// A Renderer is a run's result that renders itself as text for people,
+// JSON for machines and an HTML page: the Figures of learn and encode, and
+// the results of drift and sweep.
+type Renderer interface {
+	WriteText(io.Writer) error
+	WriteJSON(io.Writer) error
+	WriteHTML(io.Writer) error
+}
+
 // Write renders f to w in the named format: "text", "json" or "html".
-func Write(w io.Writer, format string, f *Figures) error {
+func Write(w io.Writer, format string, f Renderer) error {
 	switch format {
 	case "text":
 		return f.WriteText(w)

@@ -4,11 +4,8 @@ import (
 	"io"
 	"strings"
 
-	"github.com/bowline/bowline/corpus"
-	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/internal/drift"
-	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 )
 
@@ -63,38 +60,21 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 		return cli.Usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}
 	copts.Fields = fieldNames(s.Content.Fields)
-	r, err := corpus.Open(path, copts)
+	run, err := startCorpus(path, copts, &ef, &rf, stderr, "drift")
 	if err != nil {
 		return err
 	}
-	defer r.Close()
-	rej, err := ef.open()
+	defer run.close()
+	res, err := drift.Compare(s, run.r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: run.progress, Rejects: run.rejects()})
 	if err != nil {
 		return err
 	}
-	defer rej.abort()
-	bar := newProgress(rf.progress, r.Size(), stderr, "drift")
-	res, err := drift.Compare(s, r, drift.Options{Workers: rf.workers, Top: top, Name: path, LabelField: copts.Label, Progress: bar.set, Rejects: rej.rejects()})
-	bar.finish()
-	if err != nil {
-		return err
-	}
-	if err := rej.commit(stderr); err != nil {
+	if err := run.done(stderr); err != nil {
 		return err
 	}
 	if err := res.WriteText(stdout); err != nil {
 		return &ioError{err}
 	}
-	rej.summary(stderr)
-	if reportPath == "" {
-		return nil
-	}
-	format, err := report.FormatFromPath(reportPath)
-	if err != nil {
-		return cli.Usagef("--report: %v", err)
-	}
-	if err := atomicfile.WriteFile(reportPath, func(w io.Writer) error { return res.Write(w, format) }); err != nil {
-		return &ioError{err}
-	}
-	return nil
+	run.summary(stderr)
+	return writeReport(reportPath, res)
 }

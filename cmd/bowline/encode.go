@@ -94,34 +94,27 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 		return cli.Usagef("--text: the spec was learned on %d text field(s) (%s), got %d", len(s.Content.Input.Text), strings.Join(s.Content.Input.Text, ", "), n)
 	}
 	copts.Fields = fieldNames(s.Content.Fields)
-	r, err := openCorpus(path, copts)
-	if err != nil {
-		return err
-	}
-	defer r.Close()
 	out, err := atomicfile.Create(of.out)
 	if err != nil {
 		return &ioError{err}
 	}
 	defer out.Abort()
 	out.NoSync = true // rows can be made again; see README "Exit codes"
-	rej, err := ef.open()
+	run, err := startCorpus(path, copts, &ef, &rf, stderr, "encode")
 	if err != nil {
 		return err
 	}
-	defer rej.abort()
+	defer run.close()
 	// The pipeline writes whole batches of rows (hundreds of KB); a
 	// buffer in between would only copy them.
-	bar := newProgress(rf.progress, r.Size(), stderr, "encode")
-	fig, err := pipeline.Encode(r, enc, out, pipeline.EncodeOptions{Name: path, Workers: rf.workers, Base: of.indexBase, WithIDs: of.withIDs, LabelFallback: fb, Progress: bar.set, Rejects: rej.rejects(), Crowded: explainN})
-	bar.finish()
+	fig, err := pipeline.Encode(run.r, enc, out, pipeline.EncodeOptions{Name: path, Workers: rf.workers, Base: of.indexBase, WithIDs: of.withIDs, LabelFallback: fb, Progress: run.progress, Rejects: run.rejects(), Crowded: explainN})
 	if err != nil {
 		return err
 	}
 	if err := out.Commit(); err != nil {
 		return &ioError{err}
 	}
-	if err := rej.commit(stderr); err != nil {
+	if err := run.done(stderr); err != nil {
 		return err
 	}
 	if of.featureMap != "" {
@@ -138,7 +131,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if of.out != "-" {
 		fmt.Fprintf(stderr, "\n%d rows written to %s\n", fig.Docs, of.out)
 	}
-	rej.summary(stderr)
+	run.summary(stderr)
 	return writeReport(of.report, fig)
 }
 

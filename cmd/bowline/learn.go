@@ -142,37 +142,29 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 		// sixteenth to spare for the collector's lag.
 		debug.SetMemoryLimit(lf.limit - nonGo - lf.limit/16)
 	}
-	r, err := openCorpus(path, copts)
+	run, err := startCorpus(path, copts, &ef, &rf, stderr, "learn")
 	if err != nil {
 		return err
 	}
-	defer r.Close()
-	rej, err := ef.open()
-	if err != nil {
-		return err
-	}
-	defer rej.abort()
-	bar := newProgress(rf.progress, r.Size(), stderr, "learn")
-	lo := pipeline.LearnOptions{Name: path, Workers: rf.workers, Progress: bar.set, Rejects: rej.rejects()}
+	defer run.close()
+	lo := pipeline.LearnOptions{Name: path, Workers: rf.workers, Progress: run.progress, Rejects: run.rejects()}
 	if lf.countsOut != "" {
-		sh, fig, err := pipeline.Count(r, learner, lo)
-		bar.finish()
+		sh, fig, err := pipeline.Count(run.r, learner, lo)
 		if err != nil {
 			return err
 		}
 		if err := sh.Save(lf.countsOut); err != nil {
 			return &ioError{err}
 		}
-		if err := rej.commit(stderr); err != nil {
+		if err := run.done(stderr); err != nil {
 			return err
 		}
 		fig.WriteText(stderr)
-		rej.summary(stderr)
+		run.summary(stderr)
 		fmt.Fprintf(stderr, "\ncount shard written to %s: %d documents, %d distinct keys, no cutoff applied (bowline merge applies them)\n", lf.countsOut, sh.Counts.Docs(), sh.Counts.Len())
 		return writeReport(of.report, fig)
 	}
-	s, fig, err := pipeline.Learn(r, learner, lo)
-	bar.finish()
+	s, fig, err := pipeline.Learn(run.r, learner, lo)
 	if err != nil {
 		return err
 	}
@@ -184,11 +176,11 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 			return err
 		}
 	}
-	if err := rej.commit(stderr); err != nil {
+	if err := run.done(stderr); err != nil {
 		return err
 	}
 	fig.WriteText(stderr)
-	rej.summary(stderr)
+	run.summary(stderr)
 	if x := learner.Extension(); x != nil {
 		describeExtension(stderr, x, lf.extend)
 	}
@@ -263,7 +255,9 @@ func checkReportPath(p string) error {
 	return nil
 }
 
-func writeReport(path string, fig *report.Figures) error {
+// writeReport writes a run's result to path, in the format its name says
+// (nothing when path is empty).
+func writeReport(path string, res report.Renderer) error {
 	if path == "" {
 		return nil
 	}
@@ -271,7 +265,7 @@ func writeReport(path string, fig *report.Figures) error {
 	if err != nil {
 		return cli.Usagef("--report: %v", err)
 	}
-	if err := atomicfile.WriteFile(path, func(w io.Writer) error { return report.Write(w, format, fig) }); err != nil {
+	if err := atomicfile.WriteFile(path, func(w io.Writer) error { return report.Write(w, format, res) }); err != nil {
 		return &ioError{err}
 	}
 	return nil

@@ -68,6 +68,7 @@ func (p *progress) set(n int64) {
 	}
 }
 
+// finish ends the bar; a second call does nothing.
 func (p *progress) finish() {
 	if p.bar == nil {
 		return
@@ -76,4 +77,5 @@ func (p *progress) finish() {
 	<-p.exit
 	p.bar.Finish()
 	p.bar.Clear()
+	p.bar = nil
 }

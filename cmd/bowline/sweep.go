@@ -3,13 +3,10 @@ package main
 import (
 	"fmt"
 	"io"
-	"path/filepath"
-	"strings"
 	"time"
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
-	"github.com/bowline/bowline/internal/atomicfile"
 	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/internal/sweep"
 	"github.com/bowline/bowline/spec"
@@ -78,16 +75,8 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 			return cli.Usagef("--explain-width: %v", err)
 		}
 	}
-	format := ""
-	if report != "" {
-		switch strings.ToLower(filepath.Ext(report)) {
-		case ".json":
-			format = "json"
-		case ".html", ".htm":
-			format = "html"
-		default:
-			return cli.Usagef("--report: %q does not end in .json or .html", report)
-		}
+	if err := checkReportPath(report); err != nil {
+		return err
 	}
 	path := c.Args[0]
 	copts, err := in.Options(path, nil, c.Given)
@@ -111,50 +100,34 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return cli.Usagef("--holdout needs --label: accuracy is measured against the labels")
 	}
 	start := time.Now()
-	r, err := corpus.Open(path, copts)
+	run, err := startCorpus(path, copts, &ef, &rf, stderr, "sweep")
 	if err != nil {
 		return err
 	}
-	defer r.Close()
-	rej, err := ef.open()
-	if err != nil {
-		return err
-	}
-	defer rej.abort()
+	defer run.close()
 	var hr *corpus.Reader
 	if holdout != "" {
 		hopts, err := in.Options(holdout, nil, c.Given)
 		if err != nil {
 			return err
 		}
-		if hr, err = corpus.Open(holdout, hopts); err != nil {
+		if hr, err = openCorpus(holdout, hopts); err != nil {
 			return err
 		}
 		defer hr.Close()
 	}
-	res, err := sweep.Run(r, path, hr, holdout, sweep.Options{Settings: st, Widths: ws, Seed: an.Seed, Signed: an.Signed,
-		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew, Rejects: rej.rejects()})
+	res, err := sweep.Run(run.r, path, hr, holdout, sweep.Options{Settings: st, Widths: ws, Seed: an.Seed, Signed: an.Signed,
+		C: cval, Workers: rf.workers, Explain: explainN, ExplainWidth: ew, Rejects: run.rejects(), Progress: run.progress})
 	if err != nil {
 		return err
 	}
-	if err := rej.commit(stderr); err != nil {
+	if err := run.done(stderr); err != nil {
 		return err
 	}
 	if err := res.WriteText(stdout); err != nil {
 		return &ioError{err}
 	}
-	rej.summary(stderr)
+	run.summary(stderr)
 	fmt.Fprintf(stderr, "\nelapsed %s\n", time.Since(start).Round(time.Millisecond))
-	if report != "" {
-		err := atomicfile.WriteFile(report, func(w io.Writer) error {
-			if format == "json" {
-				return res.WriteJSON(w)
-			}
-			return res.WriteHTML(w)
-		})
-		if err != nil {
-			return &ioError{err}
-		}
-	}
-	return nil
+	return writeReport(report, res)
 }

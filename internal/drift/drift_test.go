@@ -8,6 +8,7 @@ import (
 
 	"github.com/bowline/bowline/internal/analysis"
 	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/weight"
 )
@@ -219,7 +220,7 @@ func TestRenderings(t *testing.T) {
 	s := learnSpec(t, train, settings(t, tsvInput, 2, weight.IDFNone))
 	res := compare(t, s, test, 2)
 	var js bytes.Buffer
-	if err := res.Write(&js, "json"); err != nil {
+	if err := report.Write(&js, "json", res); err != nil {
 		t.Fatal(err)
 	}
 	var m map[string]any
@@ -238,7 +239,7 @@ func TestRenderings(t *testing.T) {
 		}
 	}
 	var html bytes.Buffer
-	if err := res.Write(&html, "html"); err != nil {
+	if err := report.Write(&html, "html", res); err != nil {
 		t.Fatal(err)
 	}
 	h := html.String()
@@ -250,7 +251,7 @@ func TestRenderings(t *testing.T) {
 			t.Errorf("HTML page is not self-contained: it has %q", bad)
 		}
 	}
-	if err := res.Write(&html, "xml"); err == nil {
+	if err := report.Write(&html, "xml", res); err == nil {
 		t.Error("unknown format accepted")
 	}
 }

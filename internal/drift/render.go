@@ -12,19 +12,6 @@ import (
 	"github.com/bowline/bowline/report"
 )
 
-// Write renders r to w in the named format: "text", "json" or "html".
-func (r *Result) Write(w io.Writer, format string) error {
-	switch format {
-	case "text":
-		return r.WriteText(w)
-	case "json":
-		return r.WriteJSON(w)
-	case "html":
-		return r.WriteHTML(w)
-	}
-	return fmt.Errorf("drift: unknown format %q (want text, json or html)", format)
-}
-
 // WriteJSON writes r as indented JSON with the field names of the struct
 // tags, followed by a newline. Lists are written as [] rather than null
 // when empty; a divergence that cannot be computed is null.

@@ -86,7 +86,7 @@ func (c *collector) add(key []byte, o ngram.Order) {
 }
 
 // read collects every record of r.
-func (c *collector) read(r *corpus.Reader, name string, withLabels bool, rj *pipeline.Rejects) (*docSet, error) {
+func (c *collector) read(r *corpus.Reader, name string, withLabels bool, rj *pipeline.Rejects, progress func(int64)) (*docSet, error) {
 	d := &docSet{name: name, start: []int{0}}
 	c.cur = d
 	for {
@@ -103,6 +103,9 @@ func (c *collector) read(r *corpus.Reader, name string, withLabels bool, rj *pip
 			break
 		}
 		rec := r.Record()
+		if progress != nil {
+			progress(r.BytesRead())
+		}
 		if withLabels && len(rec.Label) == 0 && rj != nil {
 			if err := rj.Add(&pipeline.RecordError{File: name, Line: rec.Line, Err: fmt.Errorf("label field is empty")}, r.Raw()); err != nil {
 				return nil, err

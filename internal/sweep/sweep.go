@@ -53,6 +53,9 @@ type Options struct {
 	// an empty label (with the record as stored) instead of ending the run
 	// (--on-error skip).
 	Rejects *pipeline.Rejects
+	// Progress, when not nil, is called with the bytes of the training
+	// corpus read so far.
+	Progress func(bytesRead int64)
 }
 
 // Result is everything a sweep measured. Field names in JSON are stable.
@@ -217,7 +220,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 	hasLabel := s.Input.Label != ""
 	t := &keyTable{ids: map[string]int32{}}
 	c := &collector{t: t, z: an.NewAnalyzer(), h: h, counts: vocab.NewCounts(), train: true}
-	tr, err := c.read(train, trainName, hasLabel, o.Rejects)
+	tr, err := c.read(train, trainName, hasLabel, o.Rejects, o.Progress)
 	if err != nil {
 		return nil, err
 	}
@@ -228,7 +231,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 	var te *docSet
 	if holdout != nil {
 		c.train = false
-		if te, err = c.read(holdout, holdoutName, hasLabel, o.Rejects); err != nil {
+		if te, err = c.read(holdout, holdoutName, hasLabel, o.Rejects, nil); err != nil {
 			return nil, err
 		}
 	}

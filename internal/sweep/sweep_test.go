@@ -116,13 +116,13 @@ func collect(t testing.TB, s *learn.Settings, train, test []byte, seed uint64) (
 	h, _ := hashing.New(1, seed, false)
 	kt := &keyTable{ids: map[string]int32{}}
 	c := &collector{t: kt, z: an.NewAnalyzer(), h: h, counts: vocab.NewCounts(), train: true}
-	tr, err := c.read(reader(t, train, s.Input.Label), "train", s.Input.Label != "", nil)
+	tr, err := c.read(reader(t, train, s.Input.Label), "train", s.Input.Label != "", nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	kt.train = len(kt.keys)
 	c.train = false
-	te, err := c.read(reader(t, test, s.Input.Label), "test", s.Input.Label != "", nil)
+	te, err := c.read(reader(t, test, s.Input.Label), "test", s.Input.Label != "", nil, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
