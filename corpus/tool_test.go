@@ -6,29 +6,16 @@ import (
 	"os/exec"
 	"strings"
 	"testing"
-)
 
-// needTool returns the path of an outside tool, skipping the test when it
-// is missing, or failing it when CI=true.
-func needTool(t *testing.T, name, pkg string) string {
-	t.Helper()
-	path, err := exec.LookPath(name)
-	if err != nil {
-		msg := name + " not found (Debian package " + pkg + ")"
-		if os.Getenv("CI") == "true" {
-			t.Fatal(msg)
-		}
-		t.Skip(msg)
-	}
-	return path
-}
+	"github.com/bowline/bowline/internal/testkit"
+)
 
 // TestGNUGzip checks the reader against GNU gzip (Debian package gzip),
 // the reference implementation of RFC 1952: the committed test file is
 // what `gzip -9 -n` makes today, and a larger corpus compressed by gzip
 // reads back to exactly the records of the plain text.
 func TestGNUGzip(t *testing.T) {
-	gzipPath := needTool(t, "gzip", "gzip")
+	gzipPath := testkit.NeedTool(t, "gzip", "gzip")
 	run := func(in []byte) []byte {
 		cmd := exec.Command(gzipPath, "-9", "-n", "-c")
 		cmd.Stdin = bytes.NewReader(in)

@@ -15,22 +15,9 @@ import (
 	"strings"
 	"sync"
 	"testing"
-)
 
-// needTool returns the path of an outside tool. When the tool is missing the
-// test is skipped with the reason, except under CI=true, where it fails.
-func needTool(t *testing.T, name, pkg string) string {
-	t.Helper()
-	p, err := exec.LookPath(name)
-	if err != nil {
-		msg := fmt.Sprintf("%s not found (Debian package %s): %v", name, pkg, err)
-		if os.Getenv("CI") == "true" {
-			t.Fatal(msg)
-		}
-		t.Skip(msg)
-	}
-	return p
-}
+	"github.com/bowline/bowline/internal/testkit"
+)
 
 type golden struct {
 	key []byte
@@ -113,7 +100,7 @@ func xxhsumLive(t *testing.T, tool string, key []byte) uint64 {
 // Source: xxhsum -H1 (Debian package xxhash), run live on the golden keys and
 // on random keys of 0..200 bytes.
 func TestSumMatchesXxhsumLive(t *testing.T) {
-	tool := needTool(t, "xxhsum", "xxhash")
+	tool := testkit.NeedTool(t, "xxhsum", "xxhash")
 	h, _ := New(1<<20, 0, false)
 	keys := [][]byte{}
 	for _, g := range readGolden(t) {

@@ -11,6 +11,7 @@ import (
 	"testing"
 	"unicode/utf8"
 
+	"github.com/bowline/bowline/internal/testkit"
 	"golang.org/x/text/encoding"
 	"golang.org/x/text/encoding/charmap"
 )
@@ -22,18 +23,6 @@ const (
 	debianPackage = "liblingua-stopwords-perl 0.12-2"
 	debianDir     = "/usr/share/perl5/Lingua/StopWords"
 )
-
-// needOutside skips the test when an outside file is missing, or fails it
-// when CI=true (CI must have every reference installed).
-func needOutside(t *testing.T, path, why string) {
-	t.Helper()
-	if _, err := os.Stat(path); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s missing (%s) and CI=true: %v", path, why, err)
-		}
-		t.Skipf("skipping: %s missing (%s): %v", path, why, err)
-	}
-}
 
 func readGolden(t *testing.T, lang string) []string {
 	t.Helper()
@@ -98,7 +87,7 @@ func TestBuiltinMatchesGolden(t *testing.T) {
 // Check (b): the embedded lists equal the word lists inside the installed
 // Perl modules of Debian liblingua-stopwords-perl 0.12-2, parsed here in Go.
 func TestBuiltinMatchesDebianModules(t *testing.T) {
-	needOutside(t, debianDir, "Debian package "+debianPackage)
+	testkit.NeedFile(t, debianDir, "Debian package "+debianPackage)
 	for _, lang := range Languages() {
 		pm := filepath.Join(debianDir, strings.ToUpper(lang)+".pm")
 		got, err := Builtin(lang)

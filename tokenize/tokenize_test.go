@@ -9,6 +9,8 @@ import (
 	"testing"
 	"unicode"
 	"unicode/utf8"
+
+	"github.com/bowline/bowline/internal/testkit"
 )
 
 func mustNew(t testing.TB, o Options) *Tokenizer {
@@ -320,9 +322,7 @@ func TestOptions(t *testing.T) {
 // still lost: their count is asserted so that a change shows.
 func TestWordBreakPropertyCoverage(t *testing.T) {
 	const path = "/usr/share/unicode/auxiliary/WordBreakProperty.txt"
-	if !needFile(t, path, "Debian package unicode-data") {
-		return
-	}
+	testkit.NeedFile(t, path, "Debian package unicode-data")
 	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)

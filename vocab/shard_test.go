@@ -10,21 +10,9 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-)
 
-// needTool returns the path of an outside tool, or skips the test with the
-// reason (fails instead under CI=true, where .ci/run installs the tools).
-func needTool(t *testing.T, name, pkg string) string {
-	t.Helper()
-	p, err := exec.LookPath(name)
-	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s not found (Debian package %s); CI must install it", name, pkg)
-		}
-		t.Skipf("%s not found (Debian package %s): skipping", name, pkg)
-	}
-	return p
-}
+	"github.com/bowline/bowline/internal/testkit"
+)
 
 func shardBytes(t *testing.T, c *Counts, h ShardHeader) []byte {
 	t.Helper()
@@ -105,7 +93,7 @@ func TestShardVersion1(t *testing.T) {
 // TestShardGNUGzip: GNU gzip (Debian package gzip) reads what WriteShard
 // writes, and the fixture's compressed and plain forms agree.
 func TestShardGNUGzip(t *testing.T) {
-	gz := needTool(t, "gzip", "gzip")
+	gz := testkit.NeedTool(t, "gzip", "gzip")
 	c := NewCounts()
 	countDocs(c, [][]string{{"dock", "app"}, {"dock"}})
 	p := filepath.Join(t.TempDir(), "s.counts")

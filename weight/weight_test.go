@@ -5,11 +5,9 @@ import (
 	"math/rand/v2"
 	"slices"
 	"testing"
-)
 
-func near(a, b float64) bool {
-	return math.Abs(a-b) <= 1e-12*math.Max(1, math.Abs(b))
-}
+	"github.com/bowline/bowline/internal/testkit"
+)
 
 // Source: Manning, Raghavan, Schütze, Introduction to Information
 // Retrieval (2008), ch. 6, the idf table for the Reuters-RCV1 collection
@@ -113,12 +111,12 @@ func TestHandComputedCorpus(t *testing.T) {
 	smooth := IDFTable(IDFSmooth, n, df)
 	plain := IDFTable(IDFPlain, n, df)
 	for c, want := range []float64{1.6931471805599454, 1, 1.2876820724517808} {
-		if !near(smooth[c], want) {
+		if !testkit.Near(smooth[c], want, 1e-12) {
 			t.Errorf("smooth idf[%d] = %v, want %v", c, smooth[c], want)
 		}
 	}
 	for c, want := range []float64{1.0986122886681098, 0, 0.4054651081081644} {
-		if !near(plain[c], want) {
+		if !testkit.Near(plain[c], want, 1e-12) {
 			t.Errorf("plain idf[%d] = %v, want %v", c, plain[c], want)
 		}
 	}
@@ -175,7 +173,7 @@ func TestHandComputedCorpus(t *testing.T) {
 			continue
 		}
 		for i := range c.vals {
-			if !near(row.Values[i], c.vals[i]) {
+			if !testkit.Near(row.Values[i], c.vals[i], 1e-12) {
 				t.Errorf("%s: value[%d] = %v, want %v", c.name, i, row.Values[i], c.vals[i])
 			}
 		}
@@ -191,7 +189,7 @@ func TestTFApply(t *testing.T) {
 		{TFBinary, 0, 0}, {TFBinary, 5, 1}, {TFBinary, -2, -1},
 		{TFLog, 0, 0}, {TFLog, 1, 1}, {TFLog, math.E, 2}, {TFLog, -math.E, -2},
 	} {
-		if got := c.tf.Apply(c.in); !near(got, c.want) {
+		if got := c.tf.Apply(c.in); !testkit.Near(got, c.want, 1e-12) {
 			t.Errorf("%v.Apply(%v) = %v, want %v", c.tf, c.in, got, c.want)
 		}
 	}
@@ -212,7 +210,7 @@ func TestIDFEdges(t *testing.T) {
 		{IDFPlain, 10, 10, 0},
 		{IDFPlain, 10, 1, math.Log(10)},
 	} {
-		if got := c.idf.Value(c.n, c.df); !near(got, c.want) {
+		if got := c.idf.Value(c.n, c.df); !testkit.Near(got, c.want, 1e-12) {
 			t.Errorf("%v.Value(%d, %d) = %v, want %v", c.idf, c.n, c.df, got, c.want)
 		}
 	}
@@ -264,7 +262,7 @@ func TestSignedSums(t *testing.T) {
 	a.Add(5, 4)
 	a.Finish(TFLog, nil, NormNone, &row)
 	want := []float64{-(1 + math.Ln2), 1 + math.Log(4)}
-	if !slices.Equal(row.Indices, []int{3, 5}) || !near(row.Values[0], want[0]) || !near(row.Values[1], want[1]) {
+	if !slices.Equal(row.Indices, []int{3, 5}) || !testkit.Near(row.Values[0], want[0], 1e-12) || !testkit.Near(row.Values[1], want[1], 1e-12) {
 		t.Errorf("row %v %v, want [3 5] %v", row.Indices, row.Values, want)
 	}
 	a.Add(1, -3)

@@ -11,21 +11,9 @@ import (
 	"strconv"
 	"strings"
 	"testing"
-)
 
-// needTool returns the path of an outside tool, or skips the test with the
-// reason (fails instead under CI=true, where .ci/run installs the tools).
-func needTool(t *testing.T, name, pkg string) string {
-	t.Helper()
-	p, err := exec.LookPath(name)
-	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s not found (Debian package %s); CI must install it", name, pkg)
-		}
-		t.Skipf("%s not found (Debian package %s): skipping", name, pkg)
-	}
-	return p
-}
+	"github.com/bowline/bowline/internal/testkit"
+)
 
 func bowline(t *testing.T, args ...string) (code int, stderr string) {
 	t.Helper()
@@ -50,8 +38,8 @@ var accuracyRx = regexp.MustCompile(`Accuracy = ([0-9.]+)%`)
 // `liblinear-predict` reports on test, and the test majority-class rate.
 func liblinear(t *testing.T, dir, train, test string) (acc, majority float64) {
 	t.Helper()
-	trainBin := needTool(t, "liblinear-train", "liblinear-tools")
-	predictBin := needTool(t, "liblinear-predict", "liblinear-tools")
+	trainBin := testkit.NeedTool(t, "liblinear-train", "liblinear-tools")
+	predictBin := testkit.NeedTool(t, "liblinear-predict", "liblinear-tools")
 	model := filepath.Join(dir, "model")
 	if out, err := exec.Command(trainBin, "-s", "0", "-q", train, model).CombinedOutput(); err != nil {
 		t.Fatalf("liblinear-train: %v\n%s", err, out)
@@ -109,13 +97,9 @@ func TestDemoEndToEnd(t *testing.T) {
 // encode each one's last speech, train liblinear on party: held-out
 // accuracy must beat the majority-class rate.
 func TestSOTUEndToEnd(t *testing.T) {
-	src := filepath.Join("..", "..", "testdata", "sotu", "raw", "sotu.jsonl")
-	f, err := os.Open(src)
+	f, err := os.Open(testkit.SOTU(t))
 	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s missing: .ci/run must run scripts/fetch-sotu.sh", src)
-		}
-		t.Skipf("%s missing (run scripts/fetch-sotu.sh): skipping", src)
+		t.Fatal(err)
 	}
 	defer f.Close()
 	type speech struct {

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/internal/demo"
+	"github.com/bowline/bowline/internal/testkit"
 )
 
 // demoTable writes the invented demo corpus (with its table columns zone,
@@ -184,13 +185,9 @@ func TestTableFieldsBadData(t *testing.T) {
 // earlier speeches, encode the last ones; liblinear-train and
 // liblinear-predict (Debian liblinear-tools) read the rows.
 func TestSOTUTableFields(t *testing.T) {
-	src := filepath.Join("..", "..", "testdata", "sotu", "raw", "sotu.jsonl")
-	data, err := os.ReadFile(src)
+	data, err := os.ReadFile(testkit.SOTU(t))
 	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s missing: .ci/run must run scripts/fetch-sotu.sh", src)
-		}
-		t.Skipf("%s missing (run scripts/fetch-sotu.sh): skipping", src)
+		t.Fatal(err)
 	}
 	type speech struct {
 		Year int    `json:"year"`

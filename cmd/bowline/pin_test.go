@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/bowline/bowline/internal/testkit"
 )
 
 // pinCase is one learn + encode run whose outputs are pinned: the spec's
@@ -61,23 +63,13 @@ func TestPinnedOutputs(t *testing.T) {
 	}
 	dir := t.TempDir()
 	demoTable(t, dir, 1500)
-	sotu := filepath.Join("..", "..", "testdata", "sotu", "raw", "sotu.jsonl")
-	haveSOTU := true
-	if _, err := os.Stat(sotu); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s missing: .ci/run must run scripts/fetch-sotu.sh", sotu)
-		}
-		haveSOTU = false
-	}
 	print := os.Getenv("BOWLINE_PIN_PRINT") != ""
 	for _, c := range pinCases {
 		t.Run(c.name, func(t *testing.T) {
 			train, test := filepath.Join(dir, "train.tsv"), filepath.Join(dir, "test.tsv")
 			if c.corpus == "sotu" {
-				if !haveSOTU {
-					t.Skipf("%s missing (run scripts/fetch-sotu.sh): skipping", sotu)
-				}
-				train, test = sotu, sotu
+				train = testkit.SOTU(t)
+				test = train
 			}
 			sp := filepath.Join(t.TempDir(), "spec.json")
 			rows := filepath.Join(filepath.Dir(sp), "rows.svm")

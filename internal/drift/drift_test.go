@@ -8,6 +8,7 @@ import (
 
 	"github.com/bowline/bowline/internal/analysis"
 	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/weight"
@@ -60,10 +61,10 @@ func TestHandComputed(t *testing.T) {
 	// (3, 2, 1, 1, 0); new (2, 1, 0, 0, 1), green being in one document.
 	p := []float64{3, 2, 1, 1, 0}
 	q := []float64{2, 1, 0, 0, 1}
-	if got := *res.ByOrder[0].JSD; !near(got, JSD(p, q), 1e-15) || got <= 0 {
+	if got := *res.ByOrder[0].JSD; !testkit.Near(got, JSD(p, q), 1e-15) || got <= 0 {
 		t.Errorf("JSD = %g, want %g", got, JSD(p, q))
 	}
-	if got := *res.ByOrder[0].PSI; !near(got, PSI(p, q), 1e-12) {
+	if got := *res.ByOrder[0].PSI; !testkit.Near(got, PSI(p, q), 1e-12) {
 		t.Errorf("PSI = %g, want %g", got, PSI(p, q))
 	}
 	if res.Labels != nil || res.Buckets != nil {
@@ -84,7 +85,7 @@ func TestHandComputed(t *testing.T) {
 // learned on it at --min-docs 1 has no OOV key, and every divergence is 0
 // (Lin 1991: JSD is 0 exactly when the distributions are equal; PSI too).
 func TestTrainingAgainstItself(t *testing.T) {
-	train, _ := demoSplit(t, 600)
+	train, _ := testkit.DemoSplit(t, 600)
 	s := learnSpec(t, train, settings(t, tsvInput, 1, weight.IDFNone))
 	res := compare(t, s, train, 3)
 	if res.Docs != s.Content.Docs {
@@ -114,7 +115,7 @@ func TestTrainingAgainstItself(t *testing.T) {
 // keys training never saw, and a corpus of billing tickets only shifts the
 // labels and the word distribution more than the held-out split does.
 func TestHeldOutAndShift(t *testing.T) {
-	train, test := demoSplit(t, 2000)
+	train, test := testkit.DemoSplit(t, 2000)
 	s := learnSpec(t, train, settings(t, tsvInput, 2, weight.IDFSmooth))
 	held := compare(t, s, test, 2)
 	if held.OOV.TokenShare <= 0 || held.OOV.TypeShare <= held.OOV.TokenShare {
@@ -152,7 +153,7 @@ func TestHeldOutAndShift(t *testing.T) {
 
 // TestWorkersDeterministic: the result does not depend on the worker count.
 func TestWorkersDeterministic(t *testing.T) {
-	train, test := demoSplit(t, 1200)
+	train, test := testkit.DemoSplit(t, 1200)
 	for _, hash := range []bool{false, true} {
 		st := settings(t, tsvInput, 2, weight.IDFSmooth)
 		if hash {
@@ -180,7 +181,7 @@ func TestWorkersDeterministic(t *testing.T) {
 // bound of its key OOV share measured in vocabulary mode at --min-docs 1.
 // Without idf only the new corpus's figures are given, and a note says so.
 func TestHashing(t *testing.T) {
-	train, test := demoSplit(t, 1000)
+	train, test := testkit.DemoSplit(t, 1000)
 	for _, idf := range []weight.IDF{weight.IDFSmooth, weight.IDFPlain} {
 		s := learnSpec(t, train, hashSettings(settings(t, tsvInput, 1, idf), 1<<14))
 		self := compare(t, s, train, 2)
@@ -216,7 +217,7 @@ func TestHashing(t *testing.T) {
 // TestRenderings checks the JSON field names scripts rely on and that the
 // HTML page is self-contained with its plots.
 func TestRenderings(t *testing.T) {
-	train, test := demoSplit(t, 500)
+	train, test := testkit.DemoSplit(t, 500)
 	s := learnSpec(t, train, settings(t, tsvInput, 2, weight.IDFNone))
 	res := compare(t, s, test, 2)
 	var js bytes.Buffer
@@ -282,7 +283,7 @@ func TestNoAllocationPerDocument(t *testing.T) {
 }
 
 func BenchmarkCompare(b *testing.B) {
-	train, test := demoSplit(b, 2000)
+	train, test := testkit.DemoSplit(b, 2000)
 	s := learnSpec(b, train, settings(b, tsvInput, 2, weight.IDFNone))
 	b.SetBytes(int64(len(test)))
 	b.ResetTimer()

@@ -6,7 +6,6 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/corpus"
-	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/ngram"
@@ -85,25 +84,6 @@ func compare(t testing.TB, s *spec.Spec, data []byte, workers int) *Result {
 		t.Fatal(err)
 	}
 	return res
-}
-
-// demoSplit generates n invented demo records and returns the training
-// and held-out TSV files, each with the header, split as the demo splits.
-func demoSplit(t testing.TB, n int) (train, test []byte) {
-	t.Helper()
-	var buf bytes.Buffer
-	o := demo.DefaultOptions()
-	o.Docs = n
-	if err := demo.WriteTSV(&buf, o); err != nil {
-		t.Fatal(err)
-	}
-	lines := strings.SplitAfter(strings.TrimSuffix(buf.String(), "\n"), "\n")
-	header, body := lines[0], lines[1:]
-	ntrain, _ := demo.Split(len(body))
-	join := func(rows []string) []byte {
-		return []byte(header + strings.Join(rows, ""))
-	}
-	return join(body[:ntrain]), join(body[ntrain:])
 }
 
 // only keeps the TSV rows (and the header) whose column col equals value.

@@ -4,12 +4,13 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/internal/logreg"
+	"github.com/bowline/bowline/internal/testkit"
 )
 
 // BenchmarkTrain trains the 4-class demo model; bytes are the stored
 // non-zeros (index and value, 16 bytes each).
 func BenchmarkTrain(b *testing.B) {
-	tr, te := demoSplit(b, demoDocs)
+	tr, te := testkit.DemoSplit(b, demoDocs)
 	rows, _ := encodeTSV(b, tr, te, "team", 2)
 	d := readRows(b, "train", rows, 0)
 	nnz := 0

@@ -4,13 +4,9 @@ import (
 	"bytes"
 	"compress/gzip"
 	"io"
-	"os"
-	"os/exec"
-	"strings"
 	"testing"
 
 	"github.com/bowline/bowline/corpus"
-	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/logreg"
@@ -24,45 +20,9 @@ import (
 	"github.com/bowline/bowline/weight"
 )
 
-// needTool returns the path of an outside program, skipping the test with
-// a reason when it is missing, or failing it when CI=true.
-func needTool(t testing.TB, name, pkg string) string {
-	t.Helper()
-	p, err := exec.LookPath(name)
-	if err != nil {
-		missing(t, name+" not found (Debian package "+pkg+")")
-	}
-	return p
-}
-
-// missing skips, or fails under CI=true, for a missing outside resource.
-func missing(t testing.TB, reason string) {
-	t.Helper()
-	if os.Getenv("CI") == "true" {
-		t.Fatalf("%s; required when CI=true", reason)
-	}
-	t.Skip(reason)
-}
-
 // demoDocs is the size of the invented demo corpus the learner is checked
 // on: 1600 training and 400 held-out rows.
 const demoDocs = 2000
-
-// demoSplit returns the training and held-out lines (header first) of the
-// invented Pellwick demo corpus.
-func demoSplit(t testing.TB, docs int) (train, test []byte) {
-	t.Helper()
-	var all bytes.Buffer
-	o := demo.DefaultOptions()
-	o.Docs = docs
-	if err := demo.WriteTSV(&all, o); err != nil {
-		t.Fatal(err)
-	}
-	lines := strings.SplitAfter(strings.TrimSuffix(all.String(), "\n"), "\n")
-	header, body := lines[0], lines[1:]
-	n, _ := demo.Split(len(body))
-	return []byte(header + strings.Join(body[:n], "")), []byte(header + strings.Join(body[n:], ""))
-}
 
 // encodeTSV learns a vocabulary spec on train (English stop words, word
 // 1- and 2-grams, keys in at least minDocs documents, binary tf, L2 norm)

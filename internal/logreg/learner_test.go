@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/internal/logreg"
+	"github.com/bowline/bowline/internal/testkit"
 )
 
 // TestAUCHandWorked checks AUC against the Mann–Whitney count done by
@@ -157,7 +158,7 @@ func TestMultiClassProbabilities(t *testing.T) {
 
 // TestDeterministic: the same data trains the same weights, bit for bit.
 func TestDeterministic(t *testing.T) {
-	tr, te := demoSplit(t, 600)
+	tr, te := testkit.DemoSplit(t, 600)
 	a, _ := encodeTSV(t, tr, te, "team", 2)
 	d := readRows(t, "train", a, 0)
 	m1, err := logreg.Train(d, logreg.Options{})
@@ -216,7 +217,7 @@ func TestBias(t *testing.T) {
 // after exactly MaxIterations iterations, and the objective has fallen
 // below its value at w = 0, C·n·ln 2.
 func TestIterationBudget(t *testing.T) {
-	tr, te := demoSplit(t, 600)
+	tr, te := testkit.DemoSplit(t, 600)
 	a, _ := encodeTSV(t, tr, te, "channel", 2)
 	d := readRows(t, "train", a, 0)
 	for _, n := range []int{1, 2, 5} {

@@ -29,14 +29,12 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/internal/logreg"
+	"github.com/bowline/bowline/internal/testkit"
 )
 
 var goldenOut = flag.String("golden-out", "", "write liblinear golden files into this folder (TestLiblinearLive)")
 
 const goldenDir = "../../testdata/learner"
-
-// sotuPath is the State of the Union corpus fetched by scripts/fetch-sotu.sh.
-const sotuPath = "../../testdata/sotu/raw/sotu.jsonl"
 
 // llCase is one comparison: a corpus split, its label and the C used.
 type llCase struct {
@@ -62,7 +60,7 @@ func caseRows(t *testing.T, c llCase) (train, test []byte) {
 		tr, te := sotuSplit(t)
 		return encodeJSONL(t, tr, te, c.label, c.minDocs)
 	}
-	tr, te := demoSplit(t, demoDocs)
+	tr, te := testkit.DemoSplit(t, demoDocs)
 	return encodeTSV(t, tr, te, c.label, c.minDocs)
 }
 
@@ -70,9 +68,9 @@ func caseRows(t *testing.T, c llCase) (train, test []byte) {
 // the Union corpus and holds out every fourth of them.
 func sotuSplit(t *testing.T) (train, test []byte) {
 	t.Helper()
-	b, err := os.ReadFile(sotuPath)
+	b, err := os.ReadFile(testkit.SOTU(t))
 	if err != nil {
-		missing(t, sotuPath+" is missing (run scripts/fetch-sotu.sh)")
+		t.Fatal(err)
 	}
 	var tr, te bytes.Buffer
 	n := 0
@@ -95,7 +93,7 @@ func sotuSplit(t *testing.T) (train, test []byte) {
 		n++
 	}
 	if n < 40 {
-		t.Fatalf("%s: only %d Democratic or Republican addresses", sotuPath, n)
+		t.Fatalf("%s: only %d Democratic or Republican addresses", testkit.SOTU(t), n)
 	}
 	return tr.Bytes(), te.Bytes()
 }
@@ -283,8 +281,8 @@ func TestLiblinearLive(t *testing.T) {
 	if testing.Short() && *goldenOut == "" {
 		t.Skip("-short: skipping the live liblinear run")
 	}
-	train := needTool(t, "liblinear-train", "liblinear-tools")
-	predict := needTool(t, "liblinear-predict", "liblinear-tools")
+	train := testkit.NeedTool(t, "liblinear-train", "liblinear-tools")
+	predict := testkit.NeedTool(t, "liblinear-predict", "liblinear-tools")
 	for _, c := range append(llCases, sotuCase) {
 		t.Run(c.name, func(t *testing.T) {
 			trRows, teRows := caseRows(t, c)

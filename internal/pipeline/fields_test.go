@@ -10,6 +10,7 @@ import (
 	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/tablefield"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
 )
@@ -32,7 +33,7 @@ func tableSpecSettings(t testing.TB, mode spec.Mode) *learn.Settings {
 // the figures are byte-identical for any worker count (the statistics are
 // summed in input order on the reading goroutine).
 func TestTableFieldsAcrossWorkers(t *testing.T) {
-	train, test := demoCorpus(t, 1500)
+	train, test := testkit.DemoSplit(t, 1500)
 	for _, mode := range []spec.Mode{spec.ModeVocabulary, spec.ModeHashing} {
 		var first, firstRows, firstFig string
 		for _, w := range []int{1, 2, 5} {
@@ -71,7 +72,7 @@ func TestTableFieldsAcrossWorkers(t *testing.T) {
 // TestTableFieldsReaderMismatch: a reader that does not give the spec's
 // table fields is refused, not silently read as missing values.
 func TestTableFieldsReaderMismatch(t *testing.T) {
-	train, _ := demoCorpus(t, 100)
+	train, _ := testkit.DemoSplit(t, 100)
 	l, _ := learn.New(tableSpecSettings(t, spec.ModeVocabulary))
 	_, _, err := Learn(reader(t, train), l, LearnOptions{Workers: 1})
 	var re *RecordError

@@ -11,9 +11,9 @@ import (
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/internal/analysis"
-	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/report"
 	"github.com/bowline/bowline/spec"
@@ -22,20 +22,6 @@ import (
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )
-
-// demoCorpus is the invented Pellwick Bike Share corpus, split.
-func demoCorpus(t testing.TB, docs int) (train, test []byte) {
-	t.Helper()
-	var buf bytes.Buffer
-	o := demo.DefaultOptions()
-	o.Docs = docs
-	if err := demo.WriteTSV(&buf, o); err != nil {
-		t.Fatal(err)
-	}
-	lines := strings.SplitAfter(strings.TrimSuffix(buf.String(), "\n"), "\n")
-	n, _ := demo.Split(len(lines) - 1)
-	return []byte(lines[0] + strings.Join(lines[1:1+n], "")), []byte(lines[0] + strings.Join(lines[1+n:], ""))
-}
 
 var copts = corpus.Options{Format: corpus.TSV, Text: []string{"text"}, Label: "team", ID: "id"}
 
@@ -95,7 +81,7 @@ func encodeRows(t testing.TB, s *spec.Spec, data []byte, workers int) ([]byte, *
 // TestDeterministicAcrossWorkers: same input and spec give byte-identical
 // specs, rows and figures whatever the worker count.
 func TestDeterministicAcrossWorkers(t *testing.T) {
-	train, test := demoCorpus(t, 3000)
+	train, test := testkit.DemoSplit(t, 3000)
 	for _, mode := range []spec.Mode{spec.ModeVocabulary, spec.ModeHashing} {
 		var firstSpec string
 		var firstRows []byte
@@ -126,7 +112,7 @@ func TestDeterministicAcrossWorkers(t *testing.T) {
 // TestRowCountsAndParity: one row per record, in order, and the rows of a
 // saved-and-loaded spec equal the rows of the in-process spec.
 func TestRowCountsAndParity(t *testing.T) {
-	train, _ := demoCorpus(t, 1500)
+	train, _ := testkit.DemoSplit(t, 1500)
 	s := learnSpec(t, train, spec.ModeVocabulary, 2)
 	rows, fig := encodeRows(t, s, train, 2)
 	records := int64(bytes.Count(train, []byte("\n")) - 1)
@@ -162,7 +148,7 @@ func TestRowCountsAndParity(t *testing.T) {
 // TestCollisionFigures: the run's collision figures equal an independent
 // tally of every key's hash.
 func TestCollisionFigures(t *testing.T) {
-	train, test := demoCorpus(t, 1000)
+	train, test := testkit.DemoSplit(t, 1000)
 	s := learnSpec(t, train, spec.ModeHashing, 2)
 	_, fig := encodeRows(t, s, test, 2)
 	a, _ := analysis.New(&s.Content)
@@ -194,7 +180,7 @@ func TestCollisionFigures(t *testing.T) {
 }
 
 func TestLabelErrorNamesRecord(t *testing.T) {
-	train, _ := demoCorpus(t, 300)
+	train, _ := testkit.DemoSplit(t, 300)
 	s := learnSpec(t, train, spec.ModeVocabulary, 1)
 	bad := []byte("id\tteam\ttext\n1\tbikes\tflat tyre\n2\tparking\tno space at the dock\n")
 	enc, _ := encode.New(s)
@@ -206,7 +192,7 @@ func TestLabelErrorNamesRecord(t *testing.T) {
 }
 
 func BenchmarkEncodeHashing(b *testing.B) {
-	train, test := demoCorpus(b, 5000)
+	train, test := testkit.DemoSplit(b, 5000)
 	s := learnSpec(b, train, spec.ModeHashing, 2)
 	enc, _ := encode.New(s)
 	b.SetBytes(int64(len(test)))
@@ -240,7 +226,7 @@ func (f *failAfter) Write(p []byte) (int, error) {
 // TestWriteErrorEndsRun: a write error ends the run with that error,
 // whatever the worker count, and the reader and workers stop.
 func TestWriteErrorEndsRun(t *testing.T) {
-	train, test := demoCorpus(t, 3000)
+	train, test := testkit.DemoSplit(t, 3000)
 	s := learnSpec(t, train, spec.ModeVocabulary, 2)
 	enc, _ := encode.New(s)
 	for _, w := range []int{1, 2, 4} {
@@ -258,7 +244,7 @@ func TestWriteErrorEndsRun(t *testing.T) {
 // later, the run reports the first in input order, naming its line, for
 // any worker count; without the early one, it reports the later.
 func TestFirstErrorInInputOrder(t *testing.T) {
-	train, test := demoCorpus(t, 30000)
+	train, test := testkit.DemoSplit(t, 30000)
 	s := learnSpec(t, train, spec.ModeVocabulary, 2)
 	enc, _ := encode.New(s)
 	lines := strings.SplitAfter(string(test), "\n")

@@ -8,10 +8,11 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline"
+	"github.com/bowline/bowline/internal/testkit"
 )
 
 func benchDocs(b *testing.B, n int) (*bowline.Encoder, []string, []byte) {
-	train, test := demoSplit(b, 2000)
+	train, test := testkit.DemoSplit(b, 2000)
 	enc, err := bowline.New(learnSpec(b, train, "train.tsv", settings(b, demoInput)))
 	if err != nil {
 		b.Fatal(err)

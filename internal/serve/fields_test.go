@@ -14,6 +14,7 @@ import (
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/internal/tablefield"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
 )
@@ -56,7 +57,7 @@ func tableReader(t *testing.T, data []byte, st *learn.Settings) *corpus.Reader {
 // values in "fields", exactly the rows pipeline.Encode writes (what
 // "bowline encode" runs), in vocabulary and hashing mode.
 func TestParityTableFields(t *testing.T) {
-	train, test := demoSplit(t, 600)
+	train, test := testkit.DemoSplit(t, 600)
 	for _, st := range []*learn.Settings{tableSettings(t, settings(t, demoInput)), tableSettings(t, hashSettings(t, settings(t, demoInput), "2^16"))} {
 		l, err := learn.New(st)
 		if err != nil {

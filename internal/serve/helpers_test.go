@@ -13,9 +13,9 @@ import (
 	"github.com/bowline/bowline"
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
-	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
@@ -23,17 +23,6 @@ import (
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )
-
-// needFile skips the test when path is missing, or fails it when CI=true.
-func needFile(t *testing.T, path, why string) {
-	t.Helper()
-	if _, err := os.Stat(path); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s is missing (%s) and CI=true", path, why)
-		}
-		t.Skipf("skipping: %s is missing (%s)", path, why)
-	}
-}
 
 // settings returns the demo's learn settings ("--stop en --words 1-2
 // --min-docs 2 --idf smooth --norm l2") for the given input.
@@ -95,26 +84,12 @@ func openCorpus(t testing.TB, data []byte, name string, in spec.Input) *corpus.R
 	return r
 }
 
-// demoSplit generates n demo records and returns the training and held-out
-// TSV files (each with the header), split as "bowline demo" splits them.
-func demoSplit(t testing.TB, n int) (train, test []byte) {
-	t.Helper()
-	var all bytes.Buffer
-	if err := demo.WriteTSV(&all, demo.Options{Docs: n, Seed: 1}); err != nil {
-		t.Fatal(err)
-	}
-	lines := strings.SplitAfter(strings.TrimSuffix(all.String(), "\n"), "\n")
-	header, body := lines[0], lines[1:]
-	ntrain, _ := demo.Split(len(body))
-	return []byte(header + strings.Join(body[:ntrain], "")), []byte(header + strings.Join(body[ntrain:], "") + "\n")
-}
-
 var demoInput = spec.Input{Format: "tsv", Text: []string{"text"}, Label: "team", ID: "id"}
 
 // demoEncoder learns the demo spec on 300 invented records.
 func demoEncoder(t testing.TB) *bowline.Encoder {
 	t.Helper()
-	train, _ := demoSplit(t, 300)
+	train, _ := testkit.DemoSplit(t, 300)
 	enc, err := bowline.New(learnSpec(t, train, "train.tsv", settings(t, demoInput)))
 	if err != nil {
 		t.Fatal(err)

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"net/http"
 	"net/http/httptest"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -14,6 +13,7 @@ import (
 	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/svmlight"
 	"github.com/bowline/bowline/vocab"
@@ -124,7 +124,7 @@ func parity(t *testing.T, train, test []byte, name string, st *learn.Settings, b
 }
 
 func TestParityDemo(t *testing.T) {
-	train, test := demoSplit(t, 1000)
+	train, test := testkit.DemoSplit(t, 1000)
 	for _, c := range []struct {
 		name string
 		st   *learn.Settings
@@ -153,8 +153,7 @@ func TestParityDemo(t *testing.T) {
 // per line with the speech in "text"): learn on the first 80% of the
 // lines, compare the last 20% over HTTP and encode.
 func TestParitySOTU(t *testing.T) {
-	path := filepath.Join("..", "..", "testdata", "sotu", "raw", "sotu.jsonl")
-	needFile(t, path, "the State of the Union corpus; run scripts/fetch-sotu.sh")
+	path := testkit.SOTU(t)
 	data := readFile(t, path)
 	lines := strings.SplitAfter(strings.TrimRight(string(data), "\n"), "\n")
 	if len(lines) < 50 {

@@ -9,7 +9,6 @@ import (
 	"math/rand/v2"
 	"net/http"
 	"net/http/httptest"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -18,6 +17,7 @@ import (
 	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
@@ -135,7 +135,7 @@ func rawArrays(t *testing.T, body []byte, key string) [][]string {
 }
 
 func TestByteParityDemo(t *testing.T) {
-	train, test := demoSplit(t, 1000)
+	train, test := testkit.DemoSplit(t, 1000)
 	for _, c := range []struct {
 		name string
 		st   *learn.Settings
@@ -164,8 +164,7 @@ func TestByteParityDemo(t *testing.T) {
 // scripts/fetch-sotu.sh): learn on the first 80% of the speeches, compare
 // the bytes of the rest.
 func TestByteParitySOTU(t *testing.T) {
-	path := filepath.Join("..", "..", "testdata", "sotu", "raw", "sotu.jsonl")
-	needFile(t, path, "the State of the Union corpus; run scripts/fetch-sotu.sh")
+	path := testkit.SOTU(t)
 	lines := strings.SplitAfter(strings.TrimRight(string(readFile(t, path)), "\n"), "\n")
 	ntrain := len(lines) * 4 / 5
 	st := settings(t, spec.Input{Format: "jsonl", Text: []string{"text"}})

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/spec"
 )
 
@@ -264,7 +265,7 @@ func TestSpecEndpoint(t *testing.T) {
 }
 
 func TestReload(t *testing.T) {
-	train, _ := demoSplit(t, 300)
+	train, _ := testkit.DemoSplit(t, 300)
 	a := learnSpec(t, train, "train.tsv", settings(t, demoInput))
 	b := learnSpec(t, train, "train.tsv", hashSettings(t, settings(t, demoInput), "2^12"))
 	pa, pb := saveSpec(t, a, "a.json"), saveSpec(t, b, "b.json.gz")
@@ -327,7 +328,7 @@ func TestReload(t *testing.T) {
 // Many goroutines encode while the spec is swapped back and forth; every
 // response must be entirely the work of the spec it names (run with -race).
 func TestConcurrentEncodeAndReload(t *testing.T) {
-	train, _ := demoSplit(t, 300)
+	train, _ := testkit.DemoSplit(t, 300)
 	a := learnSpec(t, train, "train.tsv", settings(t, demoInput))
 	b := learnSpec(t, train, "train.tsv", hashSettings(t, settings(t, demoInput), "2^10"))
 	pa, pb := saveSpec(t, a, "a.json"), saveSpec(t, b, "b.json")
@@ -415,7 +416,7 @@ func TestConcurrentEncodeAndReload(t *testing.T) {
 func TestLargeRequestOrder(t *testing.T) {
 	enc := demoEncoder(t)
 	h, _ := New(enc, Options{})
-	_, test := demoSplit(t, 500)
+	_, test := testkit.DemoSplit(t, 500)
 	r := openCorpus(t, test, "test.tsv", demoInput)
 	var req EncodeRequest
 	for r.Scan() {

@@ -11,11 +11,11 @@ import (
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/internal/analysis"
-	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/logreg"
 	"github.com/bowline/bowline/internal/pipeline"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/stopwords"
@@ -54,21 +54,6 @@ func TestParseWidths(t *testing.T) {
 			t.Errorf("ParseWidths(%q) = %v, want an error", bad, got)
 		}
 	}
-}
-
-// demoCorpus returns the training and held-out TSV of the invented demo
-// corpus.
-func demoCorpus(t testing.TB, docs int) (train, test []byte) {
-	t.Helper()
-	var all bytes.Buffer
-	o := demo.DefaultOptions()
-	o.Docs = docs
-	if err := demo.WriteTSV(&all, o); err != nil {
-		t.Fatal(err)
-	}
-	lines := strings.SplitAfter(strings.TrimSuffix(all.String(), "\n"), "\n")
-	n, _ := demo.Split(len(lines) - 1)
-	return []byte(lines[0] + strings.Join(lines[1:1+n], "")), []byte(lines[0] + strings.Join(lines[1+n:], ""))
 }
 
 func settings(t testing.TB, label string) *learn.Settings {
@@ -133,7 +118,7 @@ func collect(t testing.TB, s *learn.Settings, train, test []byte, seed uint64) (
 // hashing.Tally, filled independently by bowline learn's hashing-mode
 // counting (learn.Worker) over the same corpus.
 func TestCollisionsMatchTally(t *testing.T) {
-	train, test := demoCorpus(t, 1000)
+	train, test := testkit.DemoSplit(t, 1000)
 	s := settings(t, "")
 	const seed = 7
 	kt, _, _, _ := collect(t, s, train, test, seed)
@@ -226,7 +211,7 @@ func sameRows(t *testing.T, what string, got []logreg.Row, want []weight.Row, co
 // log tf, smooth idf, L2 norm), and for the vocabulary (with hashed unseen
 // columns).
 func TestRowsMatchEncoder(t *testing.T) {
-	train, test := demoCorpus(t, 600)
+	train, test := testkit.DemoSplit(t, 600)
 	s := settings(t, "")
 	s.Unseen = vocab.Unseen{Mode: vocab.UnseenHash, Buckets: 16}
 	const seed = 3
@@ -261,7 +246,7 @@ func TestRowsMatchEncoder(t *testing.T) {
 
 // TestExplain checks the crowded buckets against Hasher.Bucket.
 func TestExplain(t *testing.T) {
-	train, test := demoCorpus(t, 400)
+	train, test := testkit.DemoSplit(t, 400)
 	s := settings(t, "")
 	kt, _, _, _ := collect(t, s, train, test, 0)
 	const width = 1 << 9
@@ -306,7 +291,7 @@ func TestExplain(t *testing.T) {
 // TestDeterministicWorkers: the JSON is byte-identical for 1 and 2
 // workers.
 func TestDeterministicWorkers(t *testing.T) {
-	train, test := demoCorpus(t, 500)
+	train, test := testkit.DemoSplit(t, 500)
 	s := settings(t, "team")
 	var out [2]bytes.Buffer
 	for i, workers := range []int{1, 2} {
@@ -330,7 +315,7 @@ func TestDeterministicWorkers(t *testing.T) {
 // TestMemory: model memory is width × 8 bytes × weight vectors (1 for two
 // classes), and the vocabulary's memory adds its index.
 func TestMemory(t *testing.T) {
-	train, test := demoCorpus(t, 300)
+	train, test := testkit.DemoSplit(t, 300)
 	for _, c := range []struct {
 		label   string
 		vectors int64
@@ -363,7 +348,7 @@ func TestMemory(t *testing.T) {
 }
 
 func TestHoldoutUnseenLabel(t *testing.T) {
-	train, test := demoCorpus(t, 200)
+	train, test := testkit.DemoSplit(t, 200)
 	test = bytes.Replace(test, []byte("\tbikes\t"), []byte("\tferries\t"), 1)
 	_, err := Run(reader(t, train, "team"), "train", reader(t, test, "team"), "test", Options{Settings: settings(t, "team"), Widths: []uint64{256}})
 	var re *pipeline.RecordError

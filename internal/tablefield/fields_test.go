@@ -6,12 +6,12 @@ import (
 	"path/filepath"
 	"reflect"
 	"testing"
-	"time"
 
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
 	"github.com/bowline/bowline/internal/tablefield"
+	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
@@ -103,53 +103,6 @@ func learnTable(t *testing.T, s *learn.Settings, recs []tableRecord) *spec.Spec 
 	return sp
 }
 
-func near(a, b float64) bool { return math.Abs(a-b) <= 1e-12*math.Max(1, math.Abs(b)) }
-
-// TestTableFieldsFrozen checks the numbers learn freezes against a
-// computation by hand on tableTrain.
-func TestTableFieldsFrozen(t *testing.T) {
-	sp := learnTable(t, tableSettings(t, spec.ModeVocabulary), tableTrain)
-	f := sp.Content.Fields
-	// Computed by hand: case folding makes harbour 2 documents, old town
-	// 3, quay 1 (below --min-docs 2: other); "" and absent are missing.
-	g := f[0].Category
-	if !reflect.DeepEqual(g.Levels, []string{"old town", "harbour"}) || !reflect.DeepEqual(g.LevelDocs, []int64{3, 2}) ||
-		g.OtherDocs != 1 || g.MissingDocs != 2 || len(g.OtherHashes) != 1 || g.MinDocs != 2 {
-		t.Errorf("zone: %+v", g)
-	}
-	// Computed by hand: ages 20 30 40 50 60 (-1 is a sentinel, "" and
-	// absent missing): mean 40, population variance (400+100+0+100+400)/5
-	// = 200, sd √200.
-	a := f[1].Number
-	if a.Docs != 5 || a.MissingDocs != 3 || a.Mean != 40 || !near(a.SD, math.Sqrt(200)) || a.Min != 20 || a.Max != 60 {
-		t.Errorf("age: %+v", a)
-	}
-	// Computed by hand: spend 0 0 3 3 gives ln(1+x) = 0 0 ln 4 ln 4: mean
-	// ln 2, population sd ln 2; range 0..3 as read.
-	s := f[2].Number
-	if s.Docs != 4 || s.MissingDocs != 4 || !near(s.Mean, math.Ln2) || !near(s.SD, math.Ln2) || s.Min != 0 || s.Max != 3 {
-		t.Errorf("spend: %+v", s)
-	}
-	if c := f[3].Time; c.Docs != 6 || c.MissingDocs != 2 || c.Layout != time.RFC3339 || c.Zone != "UTC" {
-		t.Errorf("created: %+v", c)
-	}
-	// Columns: 1 text key, zone 2 levels + other, missing, unseen, age 2,
-	// spend 2, created 7.
-	if got := sp.Columns(); got != 1+5+2+2+7 {
-		t.Errorf("columns %d", got)
-	}
-	var names []string
-	for _, c := range sp.Content.FieldColumns() {
-		names = append(names, c.Feature)
-	}
-	want := []string{"zone=old town", "zone=harbour", "zone=<other>", "zone=<missing>", "zone=<unseen>", "age", "age<missing>",
-		"spend", "spend<missing>", "created:hour_sin", "created:hour_cos", "created:dow_sin", "created:dow_cos",
-		"created:doy_sin", "created:doy_cos", "created<missing>"}
-	if !reflect.DeepEqual(names, want) {
-		t.Errorf("field columns\n got %q\nwant %q", names, want)
-	}
-}
-
 // TestTableFieldsRows encodes hand-made records with the frozen spec and
 // compares every value with a computation by hand. Column 0 is the text
 // key "a"; zone takes 1 old town, 2 harbour, 3 other, 4 missing, 5 unseen;
@@ -227,7 +180,7 @@ func TestTableFieldsRows(t *testing.T) {
 			t.Errorf("%s: row %v, want %v", c.name, got, c.want)
 		}
 		for col, v := range c.want {
-			if !near(got[col], v) {
+			if !testkit.Near(got[col], v, 1e-12) {
 				t.Errorf("%s: column %d = %v, want %v", c.name, col, got[col], v)
 			}
 		}
@@ -360,7 +313,7 @@ func TestTableFieldsHashing(t *testing.T) {
 		t.Fatalf("row %v, want %v", row, want)
 	}
 	for i, c := range row.Indices {
-		if !near(row.Values[i], want[uint64(c)]) {
+		if !testkit.Near(row.Values[i], want[uint64(c)], 1e-12) {
 			t.Errorf("bucket %d = %v, want %v", c, row.Values[i], want[uint64(c)])
 		}
 	}

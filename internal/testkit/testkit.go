@@ -65,7 +65,8 @@ func SOTU(t testing.TB) string {
 }
 
 // DemoSplit returns the invented demo corpus of n records (seed 1) as two
-// TSV files with the header, split as demo.Split does.
+// TSV files, each with the header and every line ended, split as
+// demo.Split does.
 func DemoSplit(t testing.TB, n int) (train, test []byte) {
 	t.Helper()
 	var all bytes.Buffer
@@ -75,7 +76,7 @@ func DemoSplit(t testing.TB, n int) (train, test []byte) {
 	lines := strings.SplitAfter(strings.TrimSuffix(all.String(), "\n"), "\n")
 	header, body := lines[0], lines[1:]
 	ntrain, _ := demo.Split(len(body))
-	return []byte(header + strings.Join(body[:ntrain], "")), []byte(header + strings.Join(body[ntrain:], ""))
+	return []byte(header + strings.Join(body[:ntrain], "")), []byte(header + strings.Join(body[ntrain:], "") + "\n")
 }
 
 // DemoTexts returns the text and team columns of the invented demo corpus
