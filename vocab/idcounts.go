@@ -164,9 +164,7 @@ func (c *IDCounts) flush() {
 		return
 	}
 	// At most two thirds full: slots are 32 bytes, and memory touched for
-	// the first time is slow on the build machines (learn on the 107 MB
-	// benchmark corpus: peak RSS 211 MB at half full, 133 MB at two
-	// thirds, and no slower).
+	// the first time is slow.
 	for 3*(c.n+len(c.buf)) > 2*len(c.slots) {
 		c.grow()
 	}

@@ -4,9 +4,7 @@
 // bowline's hash tables (word-id pairs, distinct-key tallies) are probed
 // at random over tens of megabytes. With 4 KiB pages nearly every probe
 // also misses the TLB, which on a virtual machine costs a two-level page
-// walk; 2 MiB pages make those misses rare (measured: 2 million random
-// inserts into a 256 MiB table take 1.2 s on 4 KiB pages and 0.14 s on huge
-// pages on the project's 2-core build machine). Tables from Make live
+// walk; 2 MiB pages make those misses rare. Tables from Make live
 // outside the Go heap, so the garbage collector neither scans nor frees
 // them: the element type must hold no pointers, and each table must be
 // given back with Free. BOWLINE_HUGEPAGES=0 in the environment turns this

@@ -282,8 +282,8 @@ func vocabFigures(s *spec.Spec, cut vocab.CutReport, top int) *report.VocabFigur
 // Memory model of a learn run under a memory limit (see KeyCapacity).
 const (
 	// NonHeapBytes is what a learn run holds before counting: program
-	// text and data touched, goroutine stacks, runtime structures
-	// (measured: about 14.5 MiB of resident set for bowline at start).
+	// text and data touched, goroutine stacks, runtime structures (the
+	// resident set of bowline at start, rounded up).
 	NonHeapBytes = 15 << 20
 	// baseHeapBytes is the heap a run needs besides workers and keys: the
 	// reader's buffers, label tallies, the figures.
@@ -300,7 +300,7 @@ const (
 	// spec's JSON.
 	keyHeapBytes = vocab.BoundedKeyBytes + 24 + finishKeyBytes
 	// finishKeyBytes is the heap one kept key costs while learn finishes
-	// (measured by TestMemoryLimitRSS with a corpus of one-off keys).
+	// (TestMemoryLimitRSS checks it with a corpus of one-off keys).
 	finishKeyBytes = 200
 )
 
