@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/learn/learntest"
 	"github.com/bowline/bowline/internal/tablefield"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
@@ -19,24 +20,20 @@ import (
 func learnedSpecs(t *testing.T) map[string][]byte {
 	t.Helper()
 	specs := map[string]*spec.Spec{}
-	specs["vocabulary log l2 smooth idf"] = learnSpec(t, settings(spec.ModeVocabulary))
-	specs["hashing signed"] = learnSpec(t, settings(spec.ModeHashing))
-	s := settings(spec.ModeVocabulary)
+	specs["vocabulary log l2 smooth idf"] = learntest.LearnDocs(t, learntest.Settings(spec.ModeVocabulary))
+	specs["hashing signed"] = learntest.LearnDocs(t, learntest.Settings(spec.ModeHashing))
+	s := learntest.Settings(spec.ModeVocabulary)
 	s.TF, s.IDF, s.Norm = weight.TFCount, weight.IDFNone, weight.NormNone
-	specs["vocabulary no idf"] = learnSpec(t, s)
-	s = settings(spec.ModeVocabulary)
+	specs["vocabulary no idf"] = learntest.LearnDocs(t, s)
+	s = learntest.Settings(spec.ModeVocabulary)
 	s.NGrams.Chars = s.NGrams.Words
-	specs["vocabulary chars"] = learnSpec(t, s)
+	specs["vocabulary chars"] = learntest.LearnDocs(t, s)
 	specs["table fields vocabulary"] = learnTable(t, spec.ModeVocabulary)
 	specs["table fields hashing"] = learnTable(t, spec.ModeHashing)
-	s = settings(spec.ModeVocabulary)
+	s = learntest.Settings(spec.ModeVocabulary)
 	s.Cutoffs.MinDocs = 2
-	parent := learnSpec(t, s)
-	l, err := learn.NewExtend(parent, vocab.Cutoffs{MinDocs: 3, MaxDocShare: 1}, parent.Content.Input)
-	if err != nil {
-		t.Fatal(err)
-	}
-	specs["extended (retired, parent_keys, seen)"] = observe(t, l, docs[:2])
+	parent := learntest.LearnDocs(t, s)
+	specs["extended (retired, parent_keys, seen)"], _ = learntest.ExtendOn(t, parent, vocab.Cutoffs{MinDocs: 3, MaxDocShare: 1}, learntest.Docs[:2], []string{"bikes", "billing"})
 	out := map[string][]byte{}
 	for name, sp := range specs {
 		var buf bytes.Buffer
@@ -46,20 +43,6 @@ func learnedSpecs(t *testing.T) map[string][]byte {
 		out[name] = buf.Bytes()
 	}
 	return out
-}
-
-// observe learns docs with l (labels cycling through three teams).
-func observe(t *testing.T, l *learn.Learner, docs []string) *spec.Spec {
-	t.Helper()
-	w := l.NewWorker()
-	for _, d := range docs {
-		w.Observe([][]byte{[]byte(d)})
-	}
-	sp, _, err := l.Finish(w, learn.LabelsFrom([]string{"bikes", "billing", "app"}, true))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return sp
 }
 
 // learnTable learns a spec with a category, a number and a time field on

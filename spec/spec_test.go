@@ -12,65 +12,15 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/internal/encode"
-	"github.com/bowline/bowline/internal/learn"
-	"github.com/bowline/bowline/ngram"
+	"github.com/bowline/bowline/internal/learn/learntest"
 	"github.com/bowline/bowline/spec"
-	"github.com/bowline/bowline/stopwords"
-	"github.com/bowline/bowline/tokenize"
-	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )
-
-// docs is a tiny invented Pellwick Bike Share corpus.
-var docs = []string{
-	"The dock at Harlow Quay did not release my bike",
-	"Charged twice for one ride, please refund",
-	"Great bike, smooth ride along the canal",
-	"The app froze when I tried to unlock the bike",
-}
-
-func settings(mode spec.Mode) *learn.Settings {
-	en, _ := stopwords.Builtin("en")
-	s := &learn.Settings{
-		Input:         spec.Input{Format: "tsv", Text: []string{"text"}, Label: "team"},
-		Tokens:        tokenize.DefaultOptions(),
-		StopSources:   []string{"en"},
-		StopWords:     en,
-		KeepNegations: true,
-		NGrams:        ngram.Config{Words: ngram.Range{Min: 1, Max: 2}},
-		Mode:          mode,
-		Cutoffs:       vocab.DefaultCutoffs(),
-		TF:            weight.TFLog,
-		IDF:           weight.IDFSmooth,
-		Norm:          weight.NormL2,
-	}
-	if mode == spec.ModeHashing {
-		s.Hashing = spec.Hashing{Width: 1 << 10, Seed: 7, Signed: true}
-	}
-	return s
-}
-
-func learnSpec(t *testing.T, s *learn.Settings) *spec.Spec {
-	t.Helper()
-	l, err := learn.New(s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	w := l.NewWorker()
-	for _, d := range docs {
-		w.Observe([][]byte{[]byte(d)})
-	}
-	sp, _, err := l.Finish(w, learn.LabelsFrom([]string{"bikes", "billing", "app"}, true))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return sp
-}
 
 func TestSaveLoadRoundTrip(t *testing.T) {
 	for _, mode := range []spec.Mode{spec.ModeVocabulary, spec.ModeHashing} {
 		for _, name := range []string{"spec.json", "spec.json.gz"} {
-			sp := learnSpec(t, settings(mode))
+			sp := learntest.LearnDocs(t, learntest.Settings(mode))
 			p := filepath.Join(t.TempDir(), name)
 			if err := sp.Save(p); err != nil {
 				t.Fatal(err)
@@ -93,7 +43,7 @@ func TestSaveLoadRoundTrip(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			for _, d := range docs {
+			for _, d := range learntest.Docs {
 				r1, _ := e1.Encode([][]byte{[]byte(d)})
 				r2, _ := e2.Encode([][]byte{[]byte(d)})
 				if !equalRows(r1, r2) {
@@ -117,14 +67,14 @@ func equalRows(a, b weight.Row) bool {
 }
 
 func TestFingerprintIsDeterministic(t *testing.T) {
-	a := learnSpec(t, settings(spec.ModeVocabulary))
-	b := learnSpec(t, settings(spec.ModeVocabulary))
+	a := learntest.LearnDocs(t, learntest.Settings(spec.ModeVocabulary))
+	b := learntest.LearnDocs(t, learntest.Settings(spec.ModeVocabulary))
 	if a.Fingerprint != b.Fingerprint {
 		t.Fatal("same corpus and settings gave different fingerprints")
 	}
-	s := settings(spec.ModeVocabulary)
+	s := learntest.Settings(spec.ModeVocabulary)
 	s.Norm = weight.NormL1
-	if c := learnSpec(t, s); c.Fingerprint == a.Fingerprint {
+	if c := learntest.LearnDocs(t, s); c.Fingerprint == a.Fingerprint {
 		t.Fatal("a different norm kept the fingerprint")
 	}
 }
@@ -158,7 +108,7 @@ func reason(t *testing.T, p string, data []byte) error {
 }
 
 func TestLoadRefuses(t *testing.T) {
-	sp := learnSpec(t, settings(spec.ModeVocabulary))
+	sp := learntest.LearnDocs(t, learntest.Settings(spec.ModeVocabulary))
 	p, good := writeSpec(t, sp)
 
 	// A changed document count: the content no longer hashes to the
@@ -199,7 +149,7 @@ func TestLoadRefuses(t *testing.T) {
 // TestReindentedSpecLoads: whitespace does not change a spec's meaning, so a
 // spec whose content was re-indented still loads with its fingerprint.
 func TestReindentedSpecLoads(t *testing.T) {
-	sp := learnSpec(t, settings(spec.ModeVocabulary))
+	sp := learntest.LearnDocs(t, learntest.Settings(spec.ModeVocabulary))
 	p, good := writeSpec(t, sp)
 	var pretty bytes.Buffer
 	if err := json.Indent(&pretty, good, "", "\t"); err != nil {
@@ -215,8 +165,8 @@ func TestReindentedSpecLoads(t *testing.T) {
 // TestSettingsDiff: the first setting that differs is named with both
 // values; input fields count only when asked.
 func TestSettingsDiff(t *testing.T) {
-	a, _ := settings(spec.ModeVocabulary).Content()
-	b, _ := settings(spec.ModeVocabulary).Content()
+	a, _ := learntest.Settings(spec.ModeVocabulary).Content()
+	b, _ := learntest.Settings(spec.ModeVocabulary).Content()
 	if d := spec.SettingsDiff(&a, &b, true); d != "" {
 		t.Errorf("equal settings differ: %s", d)
 	}

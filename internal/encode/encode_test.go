@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/learn/learntest"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/tokenize"
@@ -66,7 +67,7 @@ func TestTFIDFHandComputed(t *testing.T) {
 }
 
 func TestLabels(t *testing.T) {
-	sp := learnSpec(t, settings(spec.ModeVocabulary))
+	sp := learntest.LearnDocs(t, learntest.Settings(spec.ModeVocabulary))
 	enc, _ := New(sp)
 	for raw, want := range map[string]float64{"app": 1, "bikes": 2, "billing": 3} {
 		got, err := enc.Label([]byte(raw), nil)
@@ -94,9 +95,9 @@ func TestLabels(t *testing.T) {
 // twice, as Load does, for a unigram, a bigram and a key of another kind
 // (character n-grams); a good spec loads the same either way.
 func TestLoadEncoderRefusesDuplicateKeys(t *testing.T) {
-	st := settings(spec.ModeVocabulary)
+	st := learntest.Settings(spec.ModeVocabulary)
 	st.NGrams.Chars = ngram.Range{Min: 3, Max: 3}
-	good := learnSpec(t, st)
+	good := learntest.LearnDocs(t, st)
 	dir := t.TempDir()
 	p := filepath.Join(dir, "spec.json")
 	if err := good.Save(p); err != nil {
@@ -125,7 +126,7 @@ func TestLoadEncoderRefusesDuplicateKeys(t *testing.T) {
 			continue
 		}
 		tried++
-		bad := learnSpec(t, st)
+		bad := learntest.LearnDocs(t, st)
 		v := bad.Content.Vocabulary
 		a, b := cols[0], cols[len(cols)-1]
 		v.Keys[b] = keys[a]

@@ -7,6 +7,7 @@ import (
 
 	"github.com/bowline/bowline/hashing"
 	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/learn/learntest"
 	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
@@ -37,7 +38,7 @@ func TestWordIDLookupMatchesKeyLookup(t *testing.T) {
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			s := settings(spec.ModeVocabulary)
+			s := learntest.Settings(spec.ModeVocabulary)
 			s.NGrams = tc.ng
 			s.TF, s.IDF, s.Norm = weight.TFCount, weight.IDFNone, weight.NormNone
 			s.Cutoffs.MinDocs = 2
@@ -137,11 +138,11 @@ func TestHashingChunkPathMatchesAnalyze(t *testing.T) {
 	texts := testkit.WordCorpus(t, 300)
 	for _, fields := range []int{1, 2} {
 		for _, ng := range []ngram.Config{{Words: ngram.Range{Min: 1, Max: 3}}, {Words: ngram.Range{Min: 2, Max: 2}, Chars: ngram.Range{Min: 2, Max: 3}}} {
-			s := settings(spec.ModeHashing)
+			s := learntest.Settings(spec.ModeHashing)
 			s.NGrams = ng
 			s.TF, s.IDF, s.Norm = weight.TFCount, weight.IDFNone, weight.NormNone
 			s.Input.Text = []string{"title", "body"}[:fields]
-			sp := learnSpec(t, s)
+			sp := learntest.LearnDocs(t, s)
 			e, err := New(sp)
 			if err != nil {
 				t.Fatal(err)

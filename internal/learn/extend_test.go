@@ -1,68 +1,19 @@
-package learn
+package learn_test
 
 import (
 	"fmt"
 	"path/filepath"
-	"sort"
 	"strings"
 	"testing"
 
 	"github.com/bowline/bowline/internal/encode"
+	"github.com/bowline/bowline/internal/learn"
+	"github.com/bowline/bowline/internal/learn/learntest"
 	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )
-
-// observe counts texts with l, as pipeline.Learn does, and returns the
-// merged worker and the label tallies.
-func observe(l *Learner, texts, labels []string) (*Worker, spec.Labels) {
-	w := l.NewWorker()
-	tally := map[string]int64{}
-	for i, t := range texts {
-		w.Observe([][]byte{[]byte(t)})
-		tally[labels[i]]++
-	}
-	var values []string
-	for v := range tally {
-		values = append(values, v)
-	}
-	sort.Strings(values)
-	lab := LabelsFrom(values, true)
-	lab.Values = values
-	for _, v := range values {
-		lab.Counts = append(lab.Counts, tally[v])
-	}
-	return w, lab
-}
-
-func learnOn(t *testing.T, s *Settings, texts, labels []string) *spec.Spec {
-	t.Helper()
-	l, err := New(s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	w, lab := observe(l, texts, labels)
-	sp, _, err := l.Finish(w, lab)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return sp
-}
-
-func extendOn(t *testing.T, parent *spec.Spec, cut vocab.Cutoffs, texts, labels []string) (*spec.Spec, *Extension) {
-	t.Helper()
-	l, err := NewExtend(parent, cut, parent.Content.Input)
-	if err != nil {
-		t.Fatal(err)
-	}
-	w, lab := observe(l, texts, labels)
-	sp, _, err := l.Finish(w, lab)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return sp, l.Extension()
-}
 
 // TestExtendModelView is the promise of an index-stable refresh, seen from
 // a model trained on the old rows: every old column index holds the same
@@ -71,11 +22,11 @@ func extendOn(t *testing.T, parent *spec.Spec, cut vocab.Cutoffs, texts, labels 
 // that the values themselves must agree, not only the keys).
 func TestExtendModelView(t *testing.T) {
 	texts, labels := testkit.DemoTexts(t, 1200)
-	s := settings(spec.ModeVocabulary)
+	s := learntest.Settings(spec.ModeVocabulary)
 	s.TF, s.IDF, s.Norm = weight.TFCount, weight.IDFNone, weight.NormNone
 	s.Cutoffs.MinDocs = 2
-	old := learnOn(t, s, texts[:600], labels[:600])
-	ext, x := extendOn(t, old, vocab.Cutoffs{MinDocs: 3, MaxDocShare: 1}, texts[600:], labels[600:])
+	old := learntest.LearnOn(t, s, texts[:600], labels[:600])
+	ext, x := learntest.ExtendOn(t, old, vocab.Cutoffs{MinDocs: 3, MaxDocShare: 1}, texts[600:], labels[600:])
 	ov, nv := old.Content.Vocabulary, ext.Content.Vocabulary
 	n := len(ov.Keys)
 	if ext.Parent != old.Fingerprint || nv.ParentKeys != n || x.ParentKeys != n || x.Kept+x.Retired != n || len(nv.Keys) != n+x.Appended {
@@ -124,13 +75,13 @@ func TestExtendModelView(t *testing.T) {
 // them; the spec saves and loads.
 func TestExtendCounts(t *testing.T) {
 	texts, labels := testkit.DemoTexts(t, 800)
-	s := settings(spec.ModeVocabulary)
-	old := learnOn(t, s, append([]string{"zyzzogeton sighting"}, texts[:400]...), append([]string{"bikes"}, labels[:400]...))
+	s := learntest.Settings(spec.ModeVocabulary)
+	old := learntest.LearnOn(t, s, append([]string{"zyzzogeton sighting"}, texts[:400]...), append([]string{"bikes"}, labels[:400]...))
 	cut := vocab.Cutoffs{MinDocs: 2, MaxDocShare: 0.5, MaxTerms: 7}
-	ext, x := extendOn(t, old, cut, texts[400:], labels[400:])
+	ext, x := learntest.ExtendOn(t, old, cut, texts[400:], labels[400:])
 	// The new corpus counted on its own, for the expected figures.
-	l, _ := New(s)
-	w, _ := observe(l, texts[400:], labels[400:])
+	l, _ := learn.New(s)
+	w, _ := learntest.Observe(l, texts[400:], labels[400:])
 	fresh := w.Counts()
 	nv := ext.Content.Vocabulary
 	sawZero := false
@@ -174,44 +125,27 @@ func TestExtendCounts(t *testing.T) {
 		t.Fatalf("load: %v", err)
 	}
 	// Extending the extension on the first corpus revives columns.
-	_, x2 := extendOn(t, ext, vocab.Cutoffs{MinDocs: 2, MaxDocShare: 0.5}, texts[:400], labels[:400])
+	_, x2 := learntest.ExtendOn(t, ext, vocab.Cutoffs{MinDocs: 2, MaxDocShare: 0.5}, texts[:400], labels[:400])
 	if x2.Revived == 0 || x2.ParentKeys != len(nv.Keys) {
 		t.Errorf("second refresh: %+v", x2)
 	}
 }
 
-func TestExtendLabels(t *testing.T) {
-	parent := spec.Labels{Kind: "string", Map: []string{"app", "bikes", "billing"}}
-	got, err := extendLabels(parent, spec.Labels{Kind: "string", Values: []string{"bikes", "docks"}, Counts: []int64{3, 4}})
-	if err != nil || strings.Join(got.Map, " ") != "app bikes billing docks" || strings.Join(got.Values, " ") != "bikes docks" {
-		t.Errorf("labels %+v, %v", got, err)
-	}
-	if _, err := extendLabels(parent, spec.Labels{Kind: "string", Values: []string{"apps"}}); err == nil || !strings.Contains(err.Error(), `"apps"`) {
-		t.Errorf("a label sorting inside the map: %v", err)
-	}
-	if _, err := extendLabels(spec.Labels{Kind: "number"}, spec.Labels{Kind: "string", Values: []string{"1", "x"}}); err == nil {
-		t.Error("a string label for a numeric spec was accepted")
-	}
-	if _, err := extendLabels(spec.Labels{Kind: spec.LabelsNone}, spec.Labels{Kind: "number"}); err == nil {
-		t.Error("labels for an unlabeled spec were accepted")
-	}
-}
-
 func TestExtendRefuses(t *testing.T) {
-	hs := learnSpec(t, settings(spec.ModeHashing))
-	if _, err := NewExtend(hs, vocab.DefaultCutoffs(), hs.Content.Input); err == nil || !strings.Contains(err.Error(), "hashing") {
+	hs := learntest.LearnDocs(t, learntest.Settings(spec.ModeHashing))
+	if _, err := learn.NewExtend(hs, vocab.DefaultCutoffs(), hs.Content.Input); err == nil || !strings.Contains(err.Error(), "hashing") {
 		t.Errorf("hashing spec: %v", err)
 	}
-	s := settings(spec.ModeVocabulary)
+	s := learntest.Settings(spec.ModeVocabulary)
 	s.Unseen = vocab.Unseen{Mode: vocab.UnseenCount}
-	us := learnSpec(t, s)
-	if _, err := NewExtend(us, vocab.DefaultCutoffs(), us.Content.Input); err == nil || !strings.Contains(err.Error(), "unseen") {
+	us := learntest.LearnDocs(t, s)
+	if _, err := learn.NewExtend(us, vocab.DefaultCutoffs(), us.Content.Input); err == nil || !strings.Contains(err.Error(), "unseen") {
 		t.Errorf("unseen count spec: %v", err)
 	}
-	vs := learnSpec(t, settings(spec.ModeVocabulary))
+	vs := learntest.LearnDocs(t, learntest.Settings(spec.ModeVocabulary))
 	in := vs.Content.Input
 	in.Text = []string{"title", "body"}
-	if _, err := NewExtend(vs, vocab.DefaultCutoffs(), in); err == nil {
+	if _, err := learn.NewExtend(vs, vocab.DefaultCutoffs(), in); err == nil {
 		t.Error("two text fields for a one-field spec were accepted")
 	}
 }
@@ -221,15 +155,15 @@ func TestExtendRefuses(t *testing.T) {
 // same spec, fingerprint included.
 func TestShardsMergeToSameSpec(t *testing.T) {
 	texts, labels := testkit.DemoTexts(t, 900)
-	s := settings(spec.ModeVocabulary)
+	s := learntest.Settings(spec.ModeVocabulary)
 	cut := vocab.Cutoffs{MinDocs: 2, MaxDocShare: 0.9, MaxTerms: 500}
 	s.Cutoffs = cut
-	whole := learnOn(t, s, texts, labels)
+	whole := learntest.LearnOn(t, s, texts, labels)
 	dir := t.TempDir()
 	var paths []string
 	for i, r := range [][2]int{{0, 250}, {250, 700}, {700, 900}} {
-		l, _ := New(s)
-		w, lab := observe(l, texts[r[0]:r[1]], labels[r[0]:r[1]])
+		l, _ := learn.New(s)
+		w, lab := learntest.Observe(l, texts[r[0]:r[1]], labels[r[0]:r[1]])
 		sh, err := l.Shard(w, lab)
 		if err != nil {
 			t.Fatal(err)
@@ -240,7 +174,7 @@ func TestShardsMergeToSameSpec(t *testing.T) {
 		}
 		paths = append(paths, p)
 	}
-	merged, err := MergeShards(paths)
+	merged, err := learn.MergeShards(paths)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -254,17 +188,17 @@ func TestShardsMergeToSameSpec(t *testing.T) {
 		t.Fatalf("merged %s, one pass %s\n%.300s\n%.300s", got.ShortFingerprint(), whole.ShortFingerprint(), a, b)
 	}
 	// A shard counted with other settings is refused, naming the field.
-	s2 := settings(spec.ModeVocabulary)
+	s2 := learntest.Settings(spec.ModeVocabulary)
 	s2.Tokens.Case = 0
 	if s2.Tokens.Case == s.Tokens.Case {
 		s2.Tokens.MaxLen = 20
 	}
-	l, _ := New(s2)
-	w, lab := observe(l, texts[:10], labels[:10])
+	l, _ := learn.New(s2)
+	w, lab := learntest.Observe(l, texts[:10], labels[:10])
 	sh, _ := l.Shard(w, lab)
 	odd := filepath.Join(dir, "odd.counts")
 	sh.Save(odd)
-	_, err = MergeShards([]string{paths[0], odd})
+	_, err = learn.MergeShards([]string{paths[0], odd})
 	if err == nil || !strings.Contains(err.Error(), "tokens.") || !strings.Contains(err.Error(), "odd.counts") {
 		t.Errorf("odd shard: %v", err)
 	}

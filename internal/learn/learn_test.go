@@ -1,11 +1,13 @@
 package learn
 
 import (
+	"strings"
 	"testing"
 
 	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/ngram"
 	"github.com/bowline/bowline/spec"
+	"github.com/bowline/bowline/tokenize"
 	"github.com/bowline/bowline/vocab"
 )
 
@@ -19,7 +21,10 @@ func TestWordIDCountingMatchesKeyCounting(t *testing.T) {
 		{Words: ngram.Range{Min: 2, Max: 3}, Chars: ngram.Range{Min: 3, Max: 3}},
 	} {
 		for _, fields := range []int{1, 2} {
-			s := settings(spec.ModeVocabulary)
+			s := &Settings{
+				Input: spec.Input{Format: "tsv"}, Tokens: tokenize.DefaultOptions(),
+				Mode: spec.ModeVocabulary, Cutoffs: vocab.DefaultCutoffs(),
+			}
 			s.NGrams = ng
 			s.Cutoffs.MinDocs = 2
 			s.Input.Text = []string{"title", "body"}[:fields]
@@ -70,5 +75,24 @@ func TestWordIDCountingMatchesKeyCounting(t *testing.T) {
 				t.Errorf("seen keys %d, want %d", got.Seen.Keys, ref.Len())
 			}
 		}
+	}
+}
+
+// TestExtendLabels: a refresh keeps the parent's label numbers and
+// appends new labels only where the map stays sorted.
+func TestExtendLabels(t *testing.T) {
+	parent := spec.Labels{Kind: spec.LabelsString, Map: []string{"app", "bikes", "billing"}}
+	got, err := extendLabels(parent, spec.Labels{Kind: spec.LabelsString, Values: []string{"bikes", "docks"}, Counts: []int64{3, 4}})
+	if err != nil || strings.Join(got.Map, " ") != "app bikes billing docks" || strings.Join(got.Values, " ") != "bikes docks" {
+		t.Errorf("labels %+v, %v", got, err)
+	}
+	if _, err := extendLabels(parent, spec.Labels{Kind: spec.LabelsString, Values: []string{"apps"}}); err == nil || !strings.Contains(err.Error(), `"apps"`) {
+		t.Errorf("a label sorting inside the map: %v", err)
+	}
+	if _, err := extendLabels(spec.Labels{Kind: spec.LabelsNumber}, spec.Labels{Kind: spec.LabelsString, Values: []string{"1", "x"}}); err == nil {
+		t.Error("a string label for a numeric spec was accepted")
+	}
+	if _, err := extendLabels(spec.Labels{Kind: spec.LabelsNone}, spec.Labels{Kind: spec.LabelsNumber}); err == nil {
+		t.Error("labels for an unlabeled spec were accepted")
 	}
 }
