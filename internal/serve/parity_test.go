@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
 	"net/http"
 	"net/http/httptest"
 	"strings"
@@ -19,39 +20,33 @@ import (
 	"github.com/bowline/bowline/vocab"
 )
 
-// parity learns a spec on train, encodes the held-out corpus with
-// pipeline.Encode (what "bowline encode" runs) to SVMlight bytes, sends the
-// same documents through a real HTTP server in requests of batch
-// documents, and checks that every row has the same indices and the same
-// values, bit for bit. The SVMlight bytes are read back with the svmlight
-// package's Reader, which follows T. Joachims' SVMlight format description.
-// It returns the number of rows and of non-zeros compared.
-func parity(t *testing.T, train, test []byte, name string, st *learn.Settings, batch int) (rows, nnz int) {
+// parityCase is a comparison of serve with encode: a spec learned on a
+// training corpus, the held-out corpus encoded with pipeline.Encode (what
+// "bowline encode" runs) as SVMlight text, a real HTTP server for the
+// spec, and the held-out records as documents (ID: the line number).
+type parityCase struct {
+	spec *spec.Spec
+	svm  []byte
+	url  string
+	docs []WireDocument
+}
+
+// newParityCase prepares a parityCase; workers is encode's worker count.
+func newParityCase(t *testing.T, train, test []byte, name string, st *learn.Settings, workers int) *parityCase {
 	t.Helper()
-	s := learnSpec(t, train, name+"-train", st)
-	senc, err := encode.New(s)
+	pc := &parityCase{spec: learnSpec(t, train, name+"-train", st)}
+	senc, err := encode.New(pc.spec)
 	if err != nil {
 		t.Fatal(err)
 	}
 	var svm bytes.Buffer
 	r := openCorpus(t, test, name+"-test", st.Input)
-	if _, err := pipeline.Encode(r, senc, &svm, pipeline.EncodeOptions{Base: 1, Workers: 3, Name: name + "-test"}); err != nil {
+	if _, err := pipeline.Encode(r, senc, &svm, pipeline.EncodeOptions{Base: 1, Workers: workers, Name: name + "-test"}); err != nil {
 		t.Fatal(err)
 	}
 	r.Close()
-	var want []svmlight.Row
-	sr := svmlight.NewReader(&svm, name+".svm", 1)
-	for sr.Scan() {
-		row := *sr.Row()
-		row.Indices = append([]int(nil), row.Indices...)
-		row.Values = append([]float64(nil), row.Values...)
-		want = append(want, row)
-	}
-	if err := sr.Err(); err != nil {
-		t.Fatal(err)
-	}
-
-	enc, err := bowline.New(s)
+	pc.svm = svm.Bytes()
+	enc, err := bowline.New(pc.spec)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -60,11 +55,10 @@ func parity(t *testing.T, train, test []byte, name string, st *learn.Settings, b
 		t.Fatal(err)
 	}
 	srv := httptest.NewServer(h)
-	defer srv.Close()
-
+	t.Cleanup(srv.Close)
+	pc.url = srv.URL
 	r = openCorpus(t, test, name+"-test", st.Input)
 	defer r.Close()
-	var docs []WireDocument
 	for r.Scan() {
 		rec := r.Record()
 		d := WireDocument{ID: fmt.Sprint(rec.Line)}
@@ -77,34 +71,66 @@ func parity(t *testing.T, train, test []byte, name string, st *learn.Settings, b
 				d.Fields[f] = string(rec.Text[i])
 			}
 		}
-		docs = append(docs, d)
+		pc.docs = append(pc.docs, d)
 	}
 	if err := r.Err(); err != nil {
 		t.Fatal(err)
 	}
-	if len(docs) != len(want) {
-		t.Fatalf("%d documents but %d SVMlight rows", len(docs), len(want))
+	return pc
+}
+
+// post sends documents lo to hi in one request and returns the answer's
+// body, which must come with status 200.
+func (pc *parityCase) post(t *testing.T, lo, hi int) []byte {
+	t.Helper()
+	body, _ := json.Marshal(&EncodeRequest{Documents: pc.docs[lo:hi]})
+	res, err := http.Post(pc.url+"/v1/encode", "application/json", bytes.NewReader(body))
+	if err != nil {
+		t.Fatal(err)
 	}
-	for lo := 0; lo < len(docs); lo += batch {
-		hi := min(lo+batch, len(docs))
-		body, _ := json.Marshal(&EncodeRequest{Documents: docs[lo:hi]})
-		res, err := http.Post(srv.URL+"/v1/encode", "application/json", bytes.NewReader(body))
-		if err != nil {
+	out, err := io.ReadAll(res.Body)
+	res.Body.Close()
+	if err != nil || res.StatusCode != 200 {
+		t.Fatalf("status %d: %v %s", res.StatusCode, err, out)
+	}
+	return out
+}
+
+// parity checks that every row served over HTTP, in requests of batch
+// documents, has the same indices and values as encode's, bit for bit.
+// The SVMlight bytes are read back with the svmlight package's Reader,
+// which follows T. Joachims' SVMlight format description. It returns the
+// number of rows and of non-zeros compared.
+func parity(t *testing.T, train, test []byte, name string, st *learn.Settings, batch int) (rows, nnz int) {
+	t.Helper()
+	pc := newParityCase(t, train, test, name, st, 3)
+	var want []svmlight.Row
+	sr := svmlight.NewReader(bytes.NewReader(pc.svm), name+".svm", 1)
+	for sr.Scan() {
+		row := *sr.Row()
+		row.Indices = append([]int(nil), row.Indices...)
+		row.Values = append([]float64(nil), row.Values...)
+		want = append(want, row)
+	}
+	if err := sr.Err(); err != nil {
+		t.Fatal(err)
+	}
+	if len(pc.docs) != len(want) {
+		t.Fatalf("%d documents but %d SVMlight rows", len(pc.docs), len(want))
+	}
+	for lo := 0; lo < len(pc.docs); lo += batch {
+		hi := min(lo+batch, len(pc.docs))
+		var out wireResponse
+		if err := json.Unmarshal(pc.post(t, lo, hi), &out); err != nil {
 			t.Fatal(err)
 		}
-		var out wireResponse
-		err = json.NewDecoder(res.Body).Decode(&out)
-		res.Body.Close()
-		if err != nil || res.StatusCode != 200 {
-			t.Fatalf("status %d: %v", res.StatusCode, err)
-		}
-		if out.Spec != s.Fingerprint || len(out.Rows) != hi-lo {
-			t.Fatalf("spec %s with %d rows, want %s with %d", out.Spec, len(out.Rows), s.Fingerprint, hi-lo)
+		if out.Spec != pc.spec.Fingerprint || len(out.Rows) != hi-lo {
+			t.Fatalf("spec %s with %d rows, want %s with %d", out.Spec, len(out.Rows), pc.spec.Fingerprint, hi-lo)
 		}
 		for k, got := range out.Rows {
 			w := want[lo+k]
-			if got.ID != docs[lo+k].ID {
-				t.Fatalf("row %d: id %q, want %q", lo+k, got.ID, docs[lo+k].ID)
+			if got.ID != pc.docs[lo+k].ID {
+				t.Fatalf("row %d: id %q, want %q", lo+k, got.ID, pc.docs[lo+k].ID)
 			}
 			if len(got.Indices) != len(w.Indices) || len(got.Values) != len(w.Values) {
 				t.Fatalf("row %d (line %s): %d entries over HTTP, %d from encode", lo+k, got.ID, len(got.Indices), len(w.Indices))

@@ -4,47 +4,30 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"io"
 	"math"
 	"math/rand/v2"
-	"net/http"
-	"net/http/httptest"
 	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/bowline/bowline"
-	"github.com/bowline/bowline/internal/encode"
 	"github.com/bowline/bowline/internal/learn"
-	"github.com/bowline/bowline/internal/pipeline"
 	"github.com/bowline/bowline/internal/testkit"
 	"github.com/bowline/bowline/spec"
 	"github.com/bowline/bowline/vocab"
 	"github.com/bowline/bowline/weight"
 )
 
-// byteParity learns a spec on train, writes the held-out rows with
-// pipeline.Encode (what "bowline encode" runs) as SVMlight text, sends the
-// same documents through a real HTTP server, and checks that every index
-// and every value of every row is the same sequence of bytes in the JSON
-// answer as in the SVMlight row ("idx:val" pairs as T. Joachims' SVMlight
-// format description lays them out). It returns the rows and values
-// compared.
+// byteParity checks that every index and every value of every row served
+// over HTTP, in requests of batch documents, is the same sequence of bytes
+// in the JSON answer as in encode's SVMlight row ("idx:val" pairs as T.
+// Joachims' SVMlight format description lays them out). It returns the
+// rows and values compared.
 func byteParity(t *testing.T, train, test []byte, name string, st *learn.Settings, batch int) (rows, values int) {
 	t.Helper()
-	s := learnSpec(t, train, name+"-train", st)
-	senc, err := encode.New(s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var svm bytes.Buffer
-	r := openCorpus(t, test, name+"-test", st.Input)
-	if _, err := pipeline.Encode(r, senc, &svm, pipeline.EncodeOptions{Base: 1, Workers: 2, Name: name + "-test"}); err != nil {
-		t.Fatal(err)
-	}
-	r.Close()
+	pc := newParityCase(t, train, test, name, st, 2)
 	var wantIdx, wantVal [][]string
-	for _, line := range strings.Split(strings.TrimSuffix(svm.String(), "\n"), "\n") {
+	for _, line := range strings.Split(strings.TrimSuffix(string(pc.svm), "\n"), "\n") {
 		var idx, val []string
 		for _, pair := range strings.Fields(line)[1:] { // after the label
 			i, v, ok := strings.Cut(pair, ":")
@@ -55,39 +38,12 @@ func byteParity(t *testing.T, train, test []byte, name string, st *learn.Setting
 		}
 		wantIdx, wantVal = append(wantIdx, idx), append(wantVal, val)
 	}
-
-	enc, err := bowline.New(s)
-	if err != nil {
-		t.Fatal(err)
+	if len(pc.docs) != len(wantIdx) {
+		t.Fatalf("%d documents but %d SVMlight rows", len(pc.docs), len(wantIdx))
 	}
-	h, err := New(enc, Options{MaxBody: 64 << 20})
-	if err != nil {
-		t.Fatal(err)
-	}
-	srv := httptest.NewServer(h)
-	defer srv.Close()
-	r = openCorpus(t, test, name+"-test", st.Input)
-	defer r.Close()
-	var docs []WireDocument
-	for r.Scan() {
-		s := string(r.Record().Text[0])
-		docs = append(docs, WireDocument{ID: fmt.Sprint(r.Record().Line), Text: &s})
-	}
-	if len(docs) != len(wantIdx) {
-		t.Fatalf("%d documents but %d SVMlight rows", len(docs), len(wantIdx))
-	}
-	for lo := 0; lo < len(docs); lo += batch {
-		hi := min(lo+batch, len(docs))
-		body, _ := json.Marshal(&EncodeRequest{Documents: docs[lo:hi]})
-		res, err := http.Post(srv.URL+"/v1/encode", "application/json", bytes.NewReader(body))
-		if err != nil {
-			t.Fatal(err)
-		}
-		out, err := io.ReadAll(res.Body)
-		res.Body.Close()
-		if err != nil || res.StatusCode != 200 {
-			t.Fatalf("status %d: %v %s", res.StatusCode, err, out)
-		}
+	for lo := 0; lo < len(pc.docs); lo += batch {
+		hi := min(lo+batch, len(pc.docs))
+		out := pc.post(t, lo, hi)
 		gotIdx, gotVal := rawArrays(t, out, "indices"), rawArrays(t, out, "values")
 		if len(gotIdx) != hi-lo || len(gotVal) != hi-lo {
 			t.Fatalf("%d and %d arrays for %d documents", len(gotIdx), len(gotVal), hi-lo)
