@@ -4,13 +4,13 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"unicode"
-	"unicode/utf16"
-	"unicode/utf8"
+
+	"github.com/bowline/bowline/internal/jsonscan"
 )
 
 type span struct {
 	start, end int // value bytes in the line, quotes included
+	kind       jsonscan.Kind
 	found      bool
 }
 
@@ -36,17 +36,21 @@ func (r *Reader) nextJSONL() error {
 		}
 	}
 	r.rec.Line = r.line
-	if !json.Valid(line) {
-		return r.jsonSyntaxError(line, lead)
-	}
-	if line[0] != '{' {
-		return &ParseError{File: r.name, Line: r.line, Column: r.column(r.line, lead+1),
-			Err: fmt.Errorf("%w: found %s", ErrNotObject, kind(line[0]))}
-	}
 	for i := range r.spans {
 		r.spans[i] = span{}
 	}
-	r.findKeys(line)
+	sc := &r.scan
+	sc.Reset(line)
+	if k := sc.Kind(); k != jsonscan.Object {
+		if _, err := sc.Skip(); err != nil || sc.End() != nil {
+			return r.jsonSyntaxError(line, lead)
+		}
+		return &ParseError{File: r.name, Line: r.line, Column: r.column(r.line, lead+1),
+			Err: fmt.Errorf("%w: found %s", ErrNotObject, kindName(k))}
+	}
+	if r.findKeys() != nil || sc.End() != nil {
+		return r.jsonSyntaxError(line, lead)
+	}
 
 	r.scratch = r.scratch[:0]
 	r.offs = r.offs[:0]
@@ -59,19 +63,19 @@ func (r *Reader) nextJSONL() error {
 		if err := r.checkValue(line, lead, sp, name, false); err != nil {
 			return err
 		}
-		r.decodeValue(line, sp)
+		r.decodeValue(sp)
 	}
 	if r.opt.Label != "" {
 		if err := r.checkValue(line, lead, r.spans[nt], r.opt.Label, true); err != nil {
 			return err
 		}
-		r.decodeValue(line, r.spans[nt])
+		r.decodeValue(r.spans[nt])
 	}
 	if r.opt.ID != "" {
 		if err := r.checkValue(line, lead, r.spans[nt+1], r.opt.ID, true); err != nil {
 			return err
 		}
-		r.decodeValue(line, r.spans[nt+1])
+		r.decodeValue(r.spans[nt+1])
 	}
 	for j, name := range r.opt.Fields {
 		sp := r.spans[nt+2+j]
@@ -81,7 +85,7 @@ func (r *Reader) nextJSONL() error {
 		if err := r.checkFieldValue(line, lead, sp, name); err != nil {
 			return err
 		}
-		r.decodeValue(line, sp)
+		r.decodeValue(sp)
 	}
 	k := 0
 	start := 0
@@ -116,7 +120,7 @@ func (r *Reader) nextJSONL() error {
 		switch {
 		case !sp.found:
 			r.rec.Fields[j] = nil
-		case line[sp.start] == 'n':
+		case sp.kind == jsonscan.Null:
 			take(sp)
 			r.rec.Fields[j] = nil // null: missing
 		default:
@@ -129,30 +133,22 @@ func (r *Reader) nextJSONL() error {
 // checkFieldValue accepts a string, number, boolean or null for an extra
 // field.
 func (r *Reader) checkFieldValue(line []byte, lead int, sp span, name string) error {
-	switch kind(line[sp.start]) {
-	case "object", "array":
+	switch sp.kind {
+	case jsonscan.Object, jsonscan.Array:
 		return &ParseError{File: r.name, Line: r.line, Column: r.column(r.line, lead+sp.start+1), Field: name,
-			Err: fmt.Errorf("%w: expected a string, number, boolean or null, found %s", ErrWrongType, kind(line[sp.start]))}
+			Err: fmt.Errorf("%w: expected a string, number, boolean or null, found %s", ErrWrongType, kindName(sp.kind))}
 	}
 	return nil
 }
 
 func isSpace(c byte) bool { return c == ' ' || c == '\t' || c == '\r' || c == '\n' }
 
-func kind(c byte) string {
-	switch c {
-	case '"':
-		return "string"
-	case '{':
-		return "object"
-	case '[':
-		return "array"
-	case 't', 'f':
+// kindName names a kind of value in an error message.
+func kindName(k jsonscan.Kind) string {
+	if k == jsonscan.Bool {
 		return "boolean"
-	case 'n':
-		return "null"
 	}
-	return "number"
+	return k.String()
 }
 
 func (r *Reader) jsonSyntaxError(line []byte, lead int) error {
@@ -175,15 +171,15 @@ func (r *Reader) checkValue(line []byte, lead int, sp span, name string, numberO
 	if !sp.found {
 		return &ParseError{File: r.name, Line: r.line, Field: name, Err: ErrMissingField}
 	}
-	switch k := kind(line[sp.start]); {
-	case k == "string" || k == "null" || (k == "number" && numberOK):
+	switch k := sp.kind; {
+	case k == jsonscan.String || k == jsonscan.Null || (k == jsonscan.Number && numberOK):
 	default:
 		want := "a string"
 		if numberOK {
 			want = "a string or a number"
 		}
 		return &ParseError{File: r.name, Line: r.line, Column: r.column(r.line, lead+sp.start+1), Field: name,
-			Err: fmt.Errorf("%w: expected %s, found %s", ErrWrongType, want, k)}
+			Err: fmt.Errorf("%w: expected %s, found %s", ErrWrongType, want, kindName(k))}
 	}
 	return nil
 }
@@ -191,40 +187,27 @@ func (r *Reader) checkValue(line []byte, lead int, sp span, name string, numberO
 // decodeValue decodes a string value with escapes or invalid UTF-8 into
 // scratch and notes its end in offs; other values are sliced from the line
 // later (offs -1).
-func (r *Reader) decodeValue(line []byte, sp span) {
-	v := line[sp.start:sp.end]
-	if v[0] == '"' && needsUnquote(v[1:len(v)-1]) {
-		r.scratch = unquote(r.scratch, v[1:len(v)-1])
-		r.offs = append(r.offs, len(r.scratch))
-		return
+func (r *Reader) decodeValue(sp span) {
+	if sp.kind == jsonscan.String {
+		r.scan.Seek(sp.start)
+		if v, copied, _ := r.scan.String(r.scratch); copied {
+			r.scratch = v
+			r.offs = append(r.offs, len(r.scratch))
+			return
+		}
 	}
 	r.offs = append(r.offs, -1)
 }
 
-// findKeys records the spans of the wanted top-level keys of the valid
-// JSON object in line.
-func (r *Reader) findKeys(line []byte) {
+// findKeys records the spans of the wanted members of the object at the
+// scan, the last of a key given twice.
+func (r *Reader) findKeys() error {
 	nt := len(r.opt.Text)
-	i := 1
-	for {
-		i = skipSpace(line, i)
-		if line[i] == '}' {
-			return
-		}
-		// key
-		ks := i
-		i = skipString(line, i)
-		key := line[ks+1 : i-1]
-		i = skipSpace(line, i)
-		i++ // ':'
-		i = skipSpace(line, i)
-		vs := i
-		i = skipValue(line, i)
-		if needsUnquote(key) {
-			r.scratch = unquote(r.scratch[:0], key)
-			key = r.scratch
-		}
-		sp := span{vs, i, true}
+	sc := &r.scan
+	return sc.Object(func(key []byte) error {
+		sp := span{start: sc.Offset(), kind: sc.Kind(), found: true}
+		v, err := sc.Skip()
+		sp.end = sp.start + len(v)
 		for j, name := range r.opt.Text {
 			if string(key) == name {
 				r.spans[j] = sp
@@ -241,158 +224,6 @@ func (r *Reader) findKeys(line []byte) {
 				r.spans[nt+2+j] = sp
 			}
 		}
-		i = skipSpace(line, i)
-		if line[i] == ',' {
-			i++
-			continue
-		}
-		return // '}'
-	}
-}
-
-func skipSpace(b []byte, i int) int {
-	for i < len(b) && isSpace(b[i]) {
-		i++
-	}
-	return i
-}
-
-// skipString returns the index just past the string starting at b[i] == '"'.
-func skipString(b []byte, i int) int {
-	i++
-	for {
-		switch b[i] {
-		case '"':
-			return i + 1
-		case '\\':
-			i += 2 // the backslash and the byte after it
-		default:
-			i++
-		}
-	}
-}
-
-// skipValue returns the index just past the value starting at b[i].
-func skipValue(b []byte, i int) int {
-	switch b[i] {
-	case '"':
-		return skipString(b, i)
-	case '{', '[':
-		depth := 0
-		for i < len(b) {
-			switch b[i] {
-			case '"':
-				i = skipString(b, i)
-				continue
-			case '{', '[':
-				depth++
-			case '}', ']':
-				depth--
-				if depth == 0 {
-					return i + 1
-				}
-			}
-			i++
-		}
-		return i
-	}
-	for i < len(b) {
-		switch b[i] {
-		case ',', '}', ']', ' ', '\t', '\r', '\n':
-			return i
-		}
-		i++
-	}
-	return i
-}
-
-// needsUnquote reports whether the raw string body s (valid JSON) holds
-// an escape or a byte sequence that is not valid UTF-8.
-func needsUnquote(s []byte) bool {
-	for i := 0; i < len(s); {
-		c := s[i]
-		if c == '\\' {
-			return true
-		}
-		if c < utf8.RuneSelf {
-			i++
-			continue
-		}
-		r, size := utf8.DecodeRune(s[i:])
-		if r == utf8.RuneError && size == 1 {
-			return true
-		}
-		i += size
-	}
-	return false
-}
-
-// unquote appends the decoded raw string body s (valid JSON) to dst, the
-// way encoding/json decodes strings.
-func unquote(dst, s []byte) []byte {
-	for i := 0; i < len(s); {
-		c := s[i]
-		switch {
-		case c == '\\':
-			switch s[i+1] {
-			case '"', '\\', '/':
-				dst = append(dst, s[i+1])
-			case 'b':
-				dst = append(dst, '\b')
-			case 'f':
-				dst = append(dst, '\f')
-			case 'n':
-				dst = append(dst, '\n')
-			case 'r':
-				dst = append(dst, '\r')
-			case 't':
-				dst = append(dst, '\t')
-			case 'u':
-				rr := hex4(s[i+2:])
-				i += 6
-				if utf16.IsSurrogate(rr) {
-					if i+6 <= len(s) && s[i] == '\\' && s[i+1] == 'u' {
-						if dec := utf16.DecodeRune(rr, hex4(s[i+2:])); dec != unicode.ReplacementChar {
-							dst = utf8.AppendRune(dst, dec)
-							i += 6
-							continue
-						}
-					}
-					rr = unicode.ReplacementChar
-				}
-				dst = utf8.AppendRune(dst, rr)
-				continue
-			}
-			i += 2
-		case c < utf8.RuneSelf:
-			dst = append(dst, c)
-			i++
-		default:
-			r, size := utf8.DecodeRune(s[i:])
-			if r == utf8.RuneError && size == 1 {
-				dst = utf8.AppendRune(dst, unicode.ReplacementChar)
-			} else {
-				dst = append(dst, s[i:i+size]...)
-			}
-			i += size
-		}
-	}
-	return dst
-}
-
-// hex4 decodes four hex digits (valid JSON guarantees them).
-func hex4(b []byte) rune {
-	var r rune
-	for _, c := range b[:4] {
-		switch {
-		case '0' <= c && c <= '9':
-			c -= '0'
-		case 'a' <= c && c <= 'f':
-			c = c - 'a' + 10
-		default:
-			c = c - 'A' + 10
-		}
-		r = r<<4 | rune(c)
-	}
-	return r
+		return err
+	})
 }

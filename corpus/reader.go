@@ -12,6 +12,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"github.com/bowline/bowline/internal/jsonscan"
 )
 
 // Options says how to read a corpus file and which fields to take.
@@ -84,6 +86,7 @@ type Reader struct {
 	// JSONL: spans of wanted values, text fields first, then label, id,
 	// then the extra fields.
 	spans []span
+	scan  jsonscan.Scanner
 
 	rec     Record
 	buf     []byte   // long-line assembly

@@ -142,3 +142,31 @@ func BenchmarkLoad(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkDecode is Read's decoding alone on the generated specs of
+// BenchmarkLoad: the fast path ("fast") beside the two encoding/json passes
+// it stands in for ("json", referenceDecode).
+func BenchmarkDecode(b *testing.B) {
+	specs := benchSpecs()
+	for _, name := range []string{"vocabulary", "vocabulary-idf", "hashing-idf"} {
+		data := specs[name]
+		b.Run(name+"/fast", func(b *testing.B) {
+			b.SetBytes(int64(len(data)))
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, _, ok := fastDecode(data); !ok {
+					b.Fatal("the fast path gave up")
+				}
+			}
+		})
+		b.Run(name+"/json", func(b *testing.B) {
+			b.SetBytes(int64(len(data)))
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, _, envErr, contentErr := referenceDecode(data); envErr != nil || contentErr != nil {
+					b.Fatal(envErr, contentErr)
+				}
+			}
+		})
+	}
+}

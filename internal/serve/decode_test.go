@@ -375,3 +375,45 @@ func TestDecodeAllocations(t *testing.T) {
 		}
 	}
 }
+
+// The error messages clients see, to the letter: positions are byte
+// offsets into the body, and each was written by the decoder before it
+// moved to internal/jsonscan. (The reference decoder above agrees on
+// status and kind only: encoding/json words and places errors otherwise.)
+func TestDecodeErrorMessages(t *testing.T) {
+	for _, c := range []struct {
+		body   string
+		max    int64
+		status int
+		msg    string
+	}{
+		{`{"documents":[{"text":"x"}`, 0, 400, `malformed JSON: body ends early`},
+		{`{"documents":[]`, 0, 400, `malformed JSON: body ends early`},
+		{` `, 0, 400, `malformed JSON: empty body`},
+		{`documents=1`, 0, 400, `malformed JSON at byte 0: invalid character 'd' looking for the beginning of a value`},
+		{`{"documents":[{"text":5}]}`, 0, 400, `malformed request: documents[0].text must be a string, not number (byte 22)`},
+		{`{"documents":[{"id":"a","fields":{"t":[1]}}]}`, 0, 400, `malformed request: documents[0].fields["t"] must be a string, not array (byte 38)`},
+		{`{"documents":{}}`, 0, 400, `malformed request: documents must be a list, not object (byte 13)`},
+		{`{"docs":[],"documents":[]}`, 0, 400, `malformed request: unknown field "docs" in the request (byte 8)`},
+		{`[]`, 0, 400, `malformed request: the request must be an object, not array (byte 0)`},
+		{`{"documents":[{"text":"x",}]}`, 0, 400, `malformed JSON at byte 26: invalid character '}' looking for the beginning of an object key`},
+		{`{"documents":[{"text" "x"}]}`, 0, 400, `malformed JSON at byte 22: invalid character '"' after an object key`},
+		{`{"documents":[{"text":"x"} {}]}`, 0, 400, `malformed JSON at byte 27: invalid character '{' after a list element`},
+		{`{"documents":[{"text":"x" "id":"y"}]}`, 0, 400, `malformed JSON at byte 26: invalid character '"' after an object value`},
+		{"{\"documents\":[{\"text\":\"a\tb\"}]}", 0, 400, `malformed JSON at byte 24: invalid character '\t' in a string (control characters must be escaped)`},
+		{`{"documents":[{"text":"\x"}]}`, 0, 400, `malformed JSON at byte 24: invalid character 'x' in a string escape`},
+		{`{"documents":[{"text":"\u12g4"}]}`, 0, 400, `malformed JSON at byte 27: invalid character 'g' in a \u escape`},
+		{`{"documents":[{"text":"x","n":-x}]}`, 0, 400, `malformed JSON at byte 31: invalid character 'x' in a number`},
+		{`{"documents":[nulL]}`, 0, 400, `malformed JSON at byte 17: invalid character 'L' in a literal`},
+		{`{"documents":` + strings.Repeat("[", 10000) + strings.Repeat("]", 10000) + `}`, 0, 400, `malformed JSON at byte 10012: invalid character '[' nested too deep`},
+		{`{"documents":[]}x`, 0, 400, `malformed JSON: data after the request object`},
+		{`{"documents":[]}x`, 16, 413, `request body larger than 16 bytes`},
+		{`{"documents":[{"text":"a"},{"text":"b"}]}`, 20, 413, `request body larger than 20 bytes`},
+	} {
+		_, err := DecodeRequest(strings.NewReader(c.body), c.max, 0)
+		var re *RequestError
+		if !errors.As(err, &re) || re.Status != c.status || re.Msg != c.msg {
+			t.Errorf("%.40q: %v, want %d %s", c.body, err, c.status, c.msg)
+		}
+	}
+}

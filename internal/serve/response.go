@@ -79,6 +79,15 @@ func appendValue(dst []byte, v float64) []byte {
 
 const hexDigits = "0123456789abcdef"
 
+// safe marks the bytes a JSON string holds as they are: printable ASCII
+// other than the quote and the backslash.
+var safe = func() (t [256]bool) {
+	for c := 0x20; c < 0x80; c++ {
+		t[c] = c != '"' && c != '\\'
+	}
+	return t
+}()
+
 // appendJSONString appends s as a JSON string (RFC 8259 section 7) with
 // the bytes encoding/json writes when it does not escape HTML: quote,
 // backslash and control characters escaped, each byte of invalid UTF-8 as
