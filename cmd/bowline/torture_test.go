@@ -111,3 +111,55 @@ func TestTorture(t *testing.T) {
 		}
 	}
 }
+
+// TestTortureRuns runs every hostile command line of the torture corpus
+// (internal/torture, Runs) in a folder of its own and checks the exit
+// code, the message, the files that must be unchanged and those that
+// must not be left behind (no temporary file either).
+func TestTortureRuns(t *testing.T) {
+	for _, r := range torture.Runs() {
+		t.Run(r.Name, func(t *testing.T) {
+			dir := t.TempDir()
+			setup, args, err := r.Prepare(dir)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, s := range setup {
+				mustRun(t, s...)
+			}
+			before := map[string][]byte{}
+			for _, f := range r.Unchanged {
+				b, err := os.ReadFile(filepath.Join(dir, f))
+				if err != nil {
+					t.Fatalf("%s: %v", f, err)
+				}
+				before[f] = b
+			}
+			code, stderr := bowline(t, args...)
+			if code != r.Exit {
+				t.Fatalf("%s: exit %d, want %d\n%s", r.About, code, r.Exit, stderr)
+			}
+			for _, want := range r.Stderr {
+				if w := strings.ReplaceAll(want, "{dir}", dir); !strings.Contains(stderr, w) {
+					t.Errorf("%s: stderr lacks %q:\n%s", r.About, w, stderr)
+				}
+			}
+			for f, b := range before {
+				if after, err := os.ReadFile(filepath.Join(dir, f)); err != nil || !bytes.Equal(after, b) {
+					t.Errorf("%s: %s changed (%v)", r.About, f, err)
+				}
+			}
+			for _, f := range r.Absent {
+				if _, err := os.Lstat(filepath.Join(dir, f)); !os.IsNotExist(err) {
+					t.Errorf("%s: %s was left behind", r.About, f)
+				}
+			}
+			es, _ := os.ReadDir(dir)
+			for _, e := range es {
+				if strings.Contains(e.Name(), ".tmp-") || strings.HasPrefix(e.Name(), ".bowline-") {
+					t.Errorf("%s: temporary file left behind: %s", r.About, e.Name())
+				}
+			}
+		})
+	}
+}
