@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"strings"
 	"testing"
+
+	"github.com/bowline/bowline/internal/jsonscan"
 )
 
 // show renders a record as one line, so that tables can compare exactly:
@@ -162,10 +164,16 @@ func TestLines(t *testing.T) {
 
 func TestTSV(t *testing.T) {
 	o := Options{Format: TSV, Text: []string{"body"}, Label: "team", ID: "id"}
+	esc := o
+	esc.TSVEscapes = true
 	runCases(t, []readCase{
 		{name: "header names", in: "id\tbody\tteam\nt1\tflat tyre\tbikes\nt2\tdouble charge\tbilling\n", o: o,
 			want: []string{`2 "flat tyre" label="bikes" id="t1"`, `3 "double charge" label="billing" id="t2"`}},
-		{name: "escapes", in: "id\tbody\tteam\nt1\ta\\tb\\nc\\rd\\\\e\\xf\\\tbikes\n", o: o,
+		// The IANA text/tab-separated-values registration has no escapes:
+		// by default a backslash is a backslash.
+		{name: "literal backslashes", in: "id\tbody\tteam\nt1\tC:\\new\\table \\\tbikes\n", o: o,
+			want: []string{`2 "C:\\new\\table \\" label="bikes" id="t1"`}},
+		{name: "escapes", in: "id\tbody\tteam\nt1\ta\\tb\\nc\\rd\\\\e\\xf\\\tbikes\n", o: esc,
 			want: []string{`2 "a\tb\nc\rd\\e\\xf\\" label="bikes" id="t1"`}},
 		{name: "CRLF and BOM", in: "\ufeffid\tbody\tteam\r\nt1\tx\ty\r\n", o: o,
 			want: []string{`2 "x" label="y" id="t1"`}},
@@ -303,8 +311,8 @@ func TestJSONL(t *testing.T) {
 			want: []string{`3 "x" label="2" id="1"`, `5 "y" label="3" id="2"`}},
 		{name: "BOM", in: "\ufeff" + `{"id":1,"body":"x","team":2}`, o: o,
 			want: []string{`1 "x" label="2" id="1"`}},
-		{name: "last duplicate wins", in: `{"id":1,"body":"x","team":2,"body":"y"}`, o: o,
-			want: []string{`1 "y" label="2" id="1"`}},
+		{name: "duplicate key refused", in: `{"id":1,"body":"x","team":2,"body":"y"}`, o: o,
+			err: `in:1:29: duplicate key "body"`},
 		{name: "escaped key", in: `{"i\u0064":1,"b\u006fdy":"x","team":2}`, o: o,
 			want: []string{`1 "x" label="2" id="1"`}},
 		{name: "two text fields", in: `{"a":"x","b":"y\u00e9"}`,
@@ -333,4 +341,85 @@ func TestJSONL(t *testing.T) {
 		{name: "not an object", in: `["x"]`, o: o,
 			err: `in:1:1: not a JSON object: found array`},
 	})
+}
+
+// TestRecordBound: a record over Options.MaxRecord is a *ParseError
+// wrapping ErrRecordTooLong that names its line and cannot be skipped; a
+// record of exactly the bound is read. CSV counts a quoted record's line
+// breaks as part of the record.
+func TestRecordBound(t *testing.T) {
+	long := strings.Repeat("x", 40)
+	for _, c := range []struct {
+		name string
+		o    Options
+		in   string
+		line int64
+	}{
+		{"lines", Options{Format: Lines}, "short\n" + long + "\nafter\n", 2},
+		{"tsv", Options{Format: TSV, Text: []string{"text"}}, "text\nshort\n" + long + "\n", 3},
+		{"jsonl", Options{Format: JSONL, Text: []string{"text"}}, `{"text":"a"}` + "\n" + `{"text":"` + long + `"}` + "\n", 2},
+		{"csv", Options{Format: CSV, Text: []string{"text"}}, "text\nshort\n\"" + long + "\n" + long + "\"\n", 3},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			c.o.MaxRecord = 32
+			r, err := NewReader(strings.NewReader(c.in), "big."+c.name, c.o)
+			if err != nil {
+				t.Fatal(err)
+			}
+			n := 0
+			for r.Scan() {
+				n++
+			}
+			var pe *ParseError
+			if !errors.As(r.Err(), &pe) || !errors.Is(r.Err(), ErrRecordTooLong) || pe.Line != c.line {
+				t.Fatalf("after %d records: %v, want ErrRecordTooLong on line %d", n, r.Err(), c.line)
+			}
+			if r.Skip() {
+				t.Error("a record over the bound was skippable")
+			}
+		})
+	}
+	exact := strings.Repeat("y", 32)
+	r, err := NewReader(strings.NewReader(exact+"\n"+exact), "exact.txt", Options{Format: Lines, MaxRecord: 32})
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for r.Scan() {
+		n++
+	}
+	if r.Err() != nil || n != 2 {
+		t.Errorf("records of exactly the bound: %d read, %v", n, r.Err())
+	}
+}
+
+// TestJSONLDuplicateKey: a JSON Lines object holding a key twice (RFC 8259
+// section 4: names SHOULD be unique; encoding/json would keep the last) is
+// a positioned error at the second key, skippable, whether the key is one
+// the reader takes or not.
+func TestJSONLDuplicateKey(t *testing.T) {
+	in := `{"text":"a"}` + "\n" + `{"text":"b", "team":"x", "text":"c"}` + "\n" + `  {"n":1,"n":2,"text":"d"}` + "\n" + `{"text":"e"}` + "\n"
+	r, err := NewReader(strings.NewReader(in), "dup.jsonl", Options{Format: JSONL, Text: []string{"text"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	var errs []string
+	for {
+		if r.Scan() {
+			got = append(got, string(r.Record().Text[0]))
+			continue
+		}
+		if r.Err() == nil {
+			break
+		}
+		errs = append(errs, r.Err().Error())
+		if !errors.Is(r.Err(), jsonscan.ErrDuplicateKey) || !r.Skip() {
+			t.Fatalf("%v: not a skippable duplicate key", r.Err())
+		}
+	}
+	want := []string{`dup.jsonl:2:26: duplicate key "text"`, `dup.jsonl:3:10: duplicate key "n"`}
+	if strings.Join(got, " ") != "a e" || strings.Join(errs, "|") != strings.Join(want, "|") {
+		t.Errorf("records %q, errors %q; want a e and %q", got, errs, want)
+	}
 }

@@ -10,10 +10,22 @@ import (
 
 func (r *Reader) nextCSV() error {
 	r.csvStart = r.cr.InputOffset()
+	r.tape.start = r.csvStart
 	row, err := r.cr.Read()
+	if errors.Is(err, ErrRecordTooLong) {
+		return r.tooLong(r.csvLine + 1)
+	}
 	r.raw = r.tape.record(r.csvStart, r.cr.InputOffset())
 	if err != nil {
 		return r.csvError(err, row)
+	}
+	if int64(len(r.raw)) > r.maxRecord {
+		first, _ := r.cr.FieldPos(0)
+		return r.tooLong(int64(first))
+	}
+	if len(row) > 0 {
+		last, _ := r.cr.FieldPos(len(row) - 1)
+		r.csvLine = int64(last)
 	}
 	if r.width == 0 {
 		r.width = len(row)
@@ -85,9 +97,18 @@ type csvTape struct {
 	r    io.Reader
 	buf  []byte
 	base int64 // input offset of buf[0]
+	// start is the input offset where the record being read starts, and
+	// limit the most bytes a record may take: once the tape holds more
+	// than that from start on, Read fails with ErrRecordTooLong, so that
+	// an endless record stops within a buffer's length of the bound
+	// (nextCSV checks the exact length of the records read).
+	start, limit int64
 }
 
 func (t *csvTape) Read(p []byte) (int, error) {
+	if t.base+int64(len(t.buf))-t.start > t.limit {
+		return 0, ErrRecordTooLong
+	}
 	n, err := t.r.Read(p)
 	t.buf = append(t.buf, p[:n]...)
 	return n, err

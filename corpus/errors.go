@@ -19,6 +19,9 @@ var (
 	ErrNotObject = errors.New("not a JSON object")
 	// ErrWrongType means a JSON value has a type the field cannot take.
 	ErrWrongType = errors.New("wrong type")
+	// ErrRecordTooLong means a record holds more bytes than
+	// Options.MaxRecord. Reading cannot go on past it.
+	ErrRecordTooLong = errors.New("record too long")
 )
 
 // A ParseError reports a problem in a corpus file with its position.

@@ -9,8 +9,10 @@ import (
 )
 
 // Reading a TSV file with a header, taking the body as text and the team
-// as label. The tickets are invented (Pellwick Bike Share, a made-up city
-// bike-share operator).
+// as label. TSV fields are literal, as the IANA text/tab-separated-values
+// registration defines them: the "\t" of ticket t-102 stays a backslash
+// and a t (Options.TSVEscapes reads such escapes). The tickets are
+// invented (Pellwick Bike Share, a made-up city bike-share operator).
 func ExampleNewReader() {
 	const tickets = "id\tbody\tteam\n" +
 		"t-101\tDock 14 on Marrow Street will not release my bike.\tdocks\n" +
@@ -35,7 +37,7 @@ func ExampleNewReader() {
 	fmt.Println(r.Records(), "records; header", r.Header())
 	// Output:
 	// line 2, docks: "Dock 14 on Marrow Street will not release my bike."
-	// line 3, billing: "Charged twice for one ride.\tPlease refund."
+	// line 3, billing: "Charged twice for one ride.\\tPlease refund."
 	// line 4, app: ""
 	// 3 records; header [id body team]
 }

@@ -43,10 +43,10 @@ func TestFields(t *testing.T) {
 			},
 		},
 		{
-			name: "jsonl field repeated, last wins",
+			name: "jsonl field repeated, refused",
 			in:   `{"text":"a","zone":"x","zone":"y"}` + "\n",
 			o:    Options{Format: JSONL, Text: []string{"text"}, Fields: []string{"zone"}},
-			want: []string{`1 "a" label=nil id=nil f="y"`},
+			err:  `in:1:24: duplicate key "zone"`,
 		},
 		{
 			name: "jsonl object value",

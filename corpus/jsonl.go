@@ -48,7 +48,11 @@ func (r *Reader) nextJSONL() error {
 		return &ParseError{File: r.name, Line: r.line, Column: r.column(r.line, lead+1),
 			Err: fmt.Errorf("%w: found %s", ErrNotObject, kindName(k))}
 	}
-	if r.findKeys() != nil || sc.End() != nil {
+	if err := r.findKeys(); err != nil || sc.End() != nil {
+		var pe *jsonscan.ParseError
+		if errors.As(err, &pe) && errors.Is(err, jsonscan.ErrDuplicateKey) {
+			return &ParseError{File: r.name, Line: r.line, Column: r.column(r.line, lead+pe.Offset+1), Err: pe.Err}
+		}
 		return r.jsonSyntaxError(line, lead)
 	}
 

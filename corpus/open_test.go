@@ -30,7 +30,9 @@ func readFile(t *testing.T, path string, o Options) (recs []string, r *Reader) {
 	return recs, r
 }
 
-var pellwickOpts = Options{Format: TSV, Text: []string{"body"}, Label: "team", ID: "id"}
+// pellwickOpts read the invented Pellwick export, which escapes tabs and
+// line breaks inside fields as some databases do.
+var pellwickOpts = Options{Format: TSV, Text: []string{"body"}, Label: "team", ID: "id", TSVEscapes: true}
 
 func TestOpenPlainAndGzip(t *testing.T) {
 	plain, r := readFile(t, testdata+"pellwick.tsv", pellwickOpts)

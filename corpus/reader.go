@@ -42,7 +42,22 @@ type Options struct {
 	// a *ParseError at the first such byte. By default they are left to
 	// the tokenizer, which replaces and counts them.
 	StrictUTF8 bool
+	// TSVEscapes reads the backslash escapes \t, \n, \r and \\ inside TSV
+	// fields, as some database exports write them. By default TSV fields
+	// are literal, as the IANA text/tab-separated-values registration
+	// defines them: a backslash is a backslash.
+	TSVEscapes bool
+	// MaxRecord bounds the bytes of one record (a line; in CSV, a record
+	// with its quoted line breaks): a longer one is a *ParseError
+	// wrapping ErrRecordTooLong, which cannot be skipped. 0 means
+	// DefaultMaxRecord.
+	MaxRecord int64
 }
+
+// DefaultMaxRecord is the bound on one record's bytes when
+// Options.MaxRecord is 0: twice the largest one-line document bowline's
+// torture corpus reads.
+const DefaultMaxRecord = 128 << 20
 
 // A Record is one document.
 type Record struct {
@@ -57,7 +72,7 @@ type Record struct {
 }
 
 // bufSize is the size of the read buffers. Longer lines are assembled in a
-// growing buffer, so there is no limit on line length.
+// growing buffer, up to Options.MaxRecord.
 const bufSize = 64 << 10
 
 // A Reader reads records from a corpus file. Like [bufio.Scanner], call
@@ -74,6 +89,8 @@ type Reader struct {
 	size   int64
 	line   int64 // lines consumed so far (Lines, TSV, JSONL)
 	header []string
+	// maxRecord is Options.MaxRecord, or DefaultMaxRecord.
+	maxRecord int64
 
 	// TSV and CSV: column index of each wanted field (-1 for none).
 	textCols []int
@@ -103,6 +120,7 @@ type Reader struct {
 	skippable bool     // err concerns one record; Skip may go past it
 	tape      *csvTape // CSV: the bytes csv.Reader consumed, for raw records
 	csvStart  int64    // CSV: input offset where the current record starts
+	csvLine   int64    // CSV: the line of the last field read
 }
 
 type countingReader struct {
@@ -190,7 +208,10 @@ func NewReader(r io.Reader, name string, o Options) (*Reader, error) {
 	if err := checkOptions(o); err != nil {
 		return nil, err
 	}
-	rd := &Reader{name: name, opt: o, size: -1, labelCol: -1, idCol: -1}
+	rd := &Reader{name: name, opt: o, size: -1, labelCol: -1, idCol: -1, maxRecord: o.MaxRecord}
+	if rd.maxRecord <= 0 {
+		rd.maxRecord = DefaultMaxRecord
+	}
 	rd.count.r = r
 	src := bufio.NewReaderSize(&rd.count, bufSize)
 	magic, err := src.Peek(2)
@@ -222,6 +243,9 @@ func NewReader(r io.Reader, name string, o Options) (*Reader, error) {
 	case Lines:
 		rd.rec.Text = make([][]byte, 1)
 	case JSONL:
+		// A key given twice is refused: encoding/json would let the
+		// last one win, silently.
+		rd.scan.UniqueKeys = true
 		rd.rec.Text = make([][]byte, len(o.Text))
 		rd.spans = make([]span, len(o.Text)+2+len(o.Fields))
 	case TSV, CSV:
@@ -263,7 +287,7 @@ func checkOptions(o Options) error {
 // resolves the wanted fields to columns.
 func (r *Reader) openTable() error {
 	if r.opt.Format == CSV {
-		r.tape = &csvTape{r: r.br}
+		r.tape = &csvTape{r: r.br, limit: r.maxRecord}
 		r.cr = csv.NewReader(r.tape)
 		r.cr.ReuseRecord = true
 	}
@@ -340,7 +364,10 @@ func (r *Reader) readHeader() ([]string, error) {
 	}
 	var h []string
 	for _, f := range splitTab(line, nil) {
-		h = append(h, string(unescapeTSV(f)))
+		if r.opt.TSVEscapes {
+			f = unescapeTSV(f)
+		}
+		h = append(h, string(f))
 	}
 	return h, nil
 }
@@ -410,7 +437,7 @@ func (r *Reader) Scan() bool {
 		if err != io.EOF {
 			r.err = err
 			var pe *ParseError
-			r.skippable = errors.As(err, &pe)
+			r.skippable = errors.As(err, &pe) && !errors.Is(err, ErrRecordTooLong)
 		}
 		return false
 	}
@@ -421,8 +448,8 @@ func (r *Reader) Scan() bool {
 // Skip goes past the record that made Scan fail with a *ParseError, so
 // that Scan can continue with the next record; [Reader.Raw] then still
 // holds the failed record's bytes. It returns false, and changes nothing,
-// when the error cannot be skipped (an input/output or gzip error, or no
-// error at all).
+// when the error cannot be skipped (an input/output or gzip error, a
+// record over Options.MaxRecord, or no error at all).
 func (r *Reader) Skip() bool {
 	if r.err == nil || !r.skippable {
 		return false
@@ -541,6 +568,9 @@ func (r *Reader) readLine() ([]byte, error) {
 	r.buf = r.buf[:0]
 	for {
 		chunk, err := r.br.ReadSlice('\n')
+		if n := len(r.buf) + len(chunk); n > int(r.maxRecord)+1 || n > int(r.maxRecord) && (err != nil || chunk[len(chunk)-1] != '\n') {
+			return nil, r.tooLong(r.line + 1)
+		}
 		if err == nil {
 			if len(r.buf) > 0 {
 				r.buf = appendGrow(r.buf, chunk)
@@ -573,6 +603,16 @@ func (r *Reader) readLine() ([]byte, error) {
 	}
 	r.raw = line
 	return line, nil
+}
+
+// tooLong is the error of a record over the bound that starts on line.
+func (r *Reader) tooLong(line int64) error {
+	r.raw = nil
+	size := fmt.Sprintf("%d bytes", r.maxRecord)
+	if r.maxRecord%(1<<20) == 0 {
+		size = fmt.Sprintf("%d MiB", r.maxRecord>>20)
+	}
+	return &ParseError{File: r.name, Line: line, Err: fmt.Errorf("%w: over %s (the bound on one record; raise it with --record-limit)", ErrRecordTooLong, size)}
 }
 
 // appendGrow appends b to buf, doubling the capacity when it must grow, so

@@ -42,7 +42,7 @@ func TestSkipAndRaw(t *testing.T) {
 		lines     []int64
 	}{
 		{"tsv ragged", "id\ttext\n1\tfine\n2\ttoo\tmany\n3\tok\\tstill\n", Options{Format: TSV, Text: []string{"text"}},
-			[]string{"fine", "ok\tstill"}, []string{"2\ttoo\tmany"}, []int64{3}},
+			[]string{"fine", "ok\\tstill"}, []string{"2\ttoo\tmany"}, []int64{3}},
 		// RFC 4180 section 2, rule 5: a field with a quote must be
 		// enclosed in quotes; a bare quote is an error.
 		{"csv bare quote", "id,text\n1,fine\n2,bad \"quote\n3,\"multi\nline\"\n", Options{Format: CSV, Text: []string{"text"}},

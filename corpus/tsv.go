@@ -17,13 +17,13 @@ func (r *Reader) nextTSV() error {
 	if len(r.fields) != r.width {
 		return r.tsvFieldCount()
 	}
-	if bytes.IndexByte(line, '\\') >= 0 {
+	if r.opt.TSVEscapes && bytes.IndexByte(line, '\\') >= 0 {
 		// Unescaping works in place: keep the record as stored.
 		r.rawBuf = append(r.rawBuf[:0], line...)
 		r.raw = r.rawBuf
-	}
-	for i, f := range r.fields {
-		r.fields[i] = unescapeTSV(f)
+		for i, f := range r.fields {
+			r.fields[i] = unescapeTSV(f)
+		}
 	}
 	r.rec.Line = r.line
 	if r.textCols != nil {

@@ -15,6 +15,7 @@ import (
 	"strings"
 
 	"github.com/bowline/bowline/internal/atomicfile"
+	"github.com/bowline/bowline/internal/jsonscan"
 )
 
 type fileLayout struct {
@@ -95,6 +96,9 @@ var (
 	ErrFingerprint = errors.New("fingerprint mismatch")
 	// ErrInvalid: the content is incomplete or inconsistent.
 	ErrInvalid = errors.New("invalid")
+	// ErrTooLarge: the file (after gzip decompression) holds more bytes
+	// than LoadOptions.MaxBytes.
+	ErrTooLarge = errors.New("too large")
 )
 
 // LoadError explains why a spec file was refused.
@@ -102,7 +106,7 @@ type LoadError struct {
 	// File is the spec's path.
 	File string
 	// Reason is one of ErrUnreadable, ErrTruncated, ErrNotSpec,
-	// ErrNewerSchema, ErrFingerprint and ErrInvalid.
+	// ErrNewerSchema, ErrFingerprint, ErrInvalid and ErrTooLarge.
 	Reason error
 	// Err is the detail.
 	Err error
@@ -138,7 +142,16 @@ type LoadOptions struct {
 	// KeysChecked leaves out the check for duplicate vocabulary keys, for
 	// a caller that indexes the keys and refuses a duplicate itself.
 	KeysChecked bool
+	// MaxBytes bounds the spec's size after gzip decompression: reading
+	// stops past it, so a small gzipped file cannot inflate into all of
+	// memory. 0 means DefaultMaxBytes.
+	MaxBytes int64
 }
+
+// DefaultMaxBytes is the bound on a spec's size when LoadOptions.MaxBytes
+// is 0: room for a vocabulary of about six million keys with idf values
+// (bowline writes some 40 bytes a key).
+const DefaultMaxBytes = 256 << 20
 
 // Load is Load with the options.
 func (o LoadOptions) Load(path string) (*Spec, error) {
@@ -171,7 +184,18 @@ func (o LoadOptions) Read(r io.Reader, name string) (*Spec, error) {
 		src = zr
 		hint = gzipSizeHint(r)
 	}
-	data, err := readAll(src, hint)
+	limit := o.MaxBytes
+	if limit <= 0 {
+		limit = DefaultMaxBytes
+	}
+	data, err := readAll(io.LimitReader(src, limit+1), min(hint, limit+1))
+	if err == nil && int64(len(data)) > limit {
+		size := fmt.Sprintf("%d bytes", limit)
+		if limit%(1<<20) == 0 {
+			size = fmt.Sprintf("%d MiB", limit>>20)
+		}
+		return nil, &LoadError{File: name, Reason: ErrTooLarge, Err: fmt.Errorf("over %s after decompression (the bound on a spec; raise it with --spec-limit)", size)}
+	}
 	if err != nil {
 		reason := ErrUnreadable
 		if errors.Is(err, io.ErrUnexpectedEOF) {
@@ -183,6 +207,9 @@ func (o LoadOptions) Read(r io.Reader, name string) (*Spec, error) {
 	// or gives up; the encoding/json path then also reports the errors.
 	fl, content, fast := fastDecode(data)
 	if !fast {
+		if err := checkJSON(data); err != nil {
+			return nil, &LoadError{File: name, Reason: ErrNotSpec, Err: err}
+		}
 		fl = fileLayout{}
 		dec := json.NewDecoder(bytes.NewReader(data))
 		dec.DisallowUnknownFields()
@@ -294,4 +321,39 @@ func short(f string) string {
 		return "(none)"
 	}
 	return f
+}
+
+// checkJSON refuses what encoding/json lets through in a spec file: an
+// object holding a key twice (encoding/json keeps the last) and bytes
+// after the file's JSON value (json.Decoder stops before them). The error
+// names the line and column. Other faults are left to encoding/json,
+// which words them as before.
+func checkJSON(data []byte) error {
+	sc := jsonscan.New(data)
+	sc.UniqueKeys = true
+	if _, err := sc.Skip(); err != nil {
+		var pe *jsonscan.ParseError
+		if errors.As(err, &pe) && errors.Is(err, jsonscan.ErrDuplicateKey) {
+			return fmt.Errorf("%s: %w", position(data, pe.Offset), pe.Err)
+		}
+		return nil
+	}
+	if err := sc.End(); err != nil {
+		var pe *jsonscan.ParseError
+		off := sc.Offset()
+		if errors.As(err, &pe) {
+			off = pe.Offset
+		}
+		return fmt.Errorf("%s: bytes after the spec's JSON object", position(data, off))
+	}
+	return nil
+}
+
+// position is "line L, column C" of offset off in data (1-based, columns
+// in bytes).
+func position(data []byte, off int) string {
+	off = min(off, len(data))
+	line := 1 + bytes.Count(data[:off], []byte("\n"))
+	col := off - bytes.LastIndexByte(data[:off], '\n')
+	return fmt.Sprintf("line %d, column %d", line, col)
 }

@@ -39,6 +39,7 @@ func SettingsFields(c *Content, withInput bool) []Field {
 		add("input.label", c.Input.Label)
 		add("input.id", c.Input.ID)
 		add("input.no_header", c.Input.NoHeader)
+		add("input.tsv_escapes", c.Input.TSVEscapes)
 	}
 	t := c.Tokens
 	add("tokens.unicode", t.Unicode)

@@ -107,6 +107,10 @@ type Input struct {
 	Label    string   `json:"label,omitempty"`
 	ID       string   `json:"id,omitempty"`
 	NoHeader bool     `json:"no_header,omitempty"`
+	// TSVEscapes says the training TSV held backslash escapes (see
+	// corpus.Options.TSVEscapes); later runs read their TSV the same way
+	// unless told otherwise.
+	TSVEscapes bool `json:"tsv_escapes,omitempty"`
 }
 
 // Tokens are the tokenizer settings (see tokenize.Options); the file

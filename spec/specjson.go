@@ -33,13 +33,15 @@ import (
 // whole array to encoding/json.
 
 // fastDecode decodes a spec file's bytes as Read's encoding/json path
-// does: the envelope (unknown fields refused; bytes after the envelope's
-// closing brace ignored, as json.Decoder does) and its content (unknown
-// fields refused). ok is false when it gives up; fl and c are then
+// does: the envelope (unknown fields refused) and its content (unknown
+// fields refused). It gives up on a key given twice in any object and on
+// anything but white space after the envelope, which Read refuses (see
+// checkJSON). ok is false when it gives up; fl and c are then
 // meaningless. The strings of c may share data's bytes, so data must not
 // change afterwards.
 func fastDecode(data []byte) (fl fileLayout, c Content, ok bool) {
 	d := &fastScan{s: jsonscan.New(data), b: data, async: new(asyncDecode)}
+	d.s.UniqueKeys = true // Read refuses a key given twice (see checkJSON)
 	defer func() {
 		// Arrays decoded on other goroutines must be done, and done well.
 		d.async.wg.Wait()
@@ -69,6 +71,7 @@ func fastDecode(data []byte) (fl fileLayout, c Content, ok bool) {
 		}
 		return false
 	})
+	ok = ok && d.s.End() == nil
 	return fl, c, ok
 }
 

@@ -41,6 +41,11 @@ func referenceDecode(data []byte) (fl fileLayout, c Content, envErr, contentErr 
 // referenceRead is Read as it was before the fast path (decoding with
 // encoding/json alone), for already-read bytes.
 func referenceRead(data []byte, name string) (*Spec, error) {
+	// Both of Read's paths refuse what encoding/json lets through: a key
+	// given twice, bytes after the envelope.
+	if err := checkJSON(data); err != nil {
+		return nil, &LoadError{File: name, Reason: ErrNotSpec, Err: err}
+	}
 	var fl fileLayout
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
@@ -237,7 +242,8 @@ var contentCases = []contentCase{
 	{"bucket negative", hashContent(`,"idf_buckets":[-1],"idf_bucket_values":[1]`), false},
 	{"bucket minus zero", hashContent(`,"idf_buckets":[-0],"idf_bucket_values":[1]`), false},
 	// encoding/json: the last of two fields of one name wins (merging into
-	// a struct decoded twice); the fast path gives up.
+	// a struct decoded twice); the fast path gives up, and Read refuses
+	// the file (checkJSON).
 	{"duplicate keys field", vocabContent(`"keys":["a"],"orders":[1],"doc_counts":[1],"keys":["b"]`, ""), false},
 	{"duplicate vocabulary", strings.Replace(vocabContent(`"keys":["a"],"orders":[1],"doc_counts":[1]`, ""), `"vocabulary":{`, `"vocabulary":{"max_terms":5,"keys":["z"]},"vocabulary":{`, 1), false},
 	// encoding/json matches field names without regard to case.
@@ -308,7 +314,7 @@ func TestFastDecodeEnvelope(t *testing.T) {
 		fast bool
 	}{
 		"good":               {good, true},
-		"trailing garbage":   {append(append([]byte(nil), good...), "}}garbage"...), true},
+		"trailing garbage":   {append(append([]byte(nil), good...), "}}garbage"...), false},
 		"leading space":      {append([]byte(" \r\n\t"), good...), true},
 		"parent":             {bytes.Replace(good, []byte(`"tool"`), []byte(`"parent": "sha256:00", "tool"`), 1), true},
 		"escaped tool":       {bytes.Replace(good, []byte(`"bowline 0.1.0"`), []byte(`"bowline \u0030.1.0"`), 1), true},

@@ -6,7 +6,6 @@ import (
 
 	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/internal/drift"
-	"github.com/bowline/bowline/spec"
 )
 
 func init() {
@@ -24,6 +23,8 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 	var ef errorFlags
 	ef.register(c.Flags)
 	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	var sf specFlags
+	sf.register(c.Flags)
 	c.Flags.IntVar(&top, "top", drift.DefaultTop, "how many unseen and moved keys to list")
 	c.Flags.StringVar(&reportPath, "report", "", "also write the figures to FILE.json or FILE.html")
 	if err := c.parse(args); err != nil {
@@ -47,7 +48,7 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 	if err := checkReportPath(reportPath); err != nil {
 		return err
 	}
-	s, err := spec.Load(specPath)
+	s, err := sf.load(specPath)
 	if err != nil {
 		return err
 	}

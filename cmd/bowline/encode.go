@@ -25,6 +25,8 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	in.Register(c.Flags)
 	rf.register(c.Flags)
 	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	var sf specFlags
+	sf.register(c.Flags)
 	c.Flags.StringVar(&of.out, "o", "-", "rows file to write (- is standard output)")
 	c.Flags.IntVar(&of.indexBase, "index-base", 1, "index of the first column: 1 or 0")
 	c.Flags.BoolVar(&of.withIDs, "with-ids", false, "append \"# id\" to every row")
@@ -63,7 +65,7 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	s, enc, err := encode.Load(specPath)
+	s, enc, err := encode.Load(specPath, sf.options())
 	if err != nil {
 		return err
 	}

@@ -17,6 +17,8 @@ import (
 
 func runInspect(args []string, stdout, stderr io.Writer) error {
 	c := newCommand("inspect", "SPEC [flags]", "Shows a spec: fingerprint and parent, settings, size per n-gram order, top terms by document count,\nretired columns, and how many keys other cutoffs would keep.")
+	var sf specFlags
+	sf.register(c.Flags)
 	var top int
 	var fmap string
 	var asJSON bool
@@ -32,7 +34,7 @@ func runInspect(args []string, stdout, stderr io.Writer) error {
 	if top < 0 {
 		return cli.Usagef("--top: %d is negative", top)
 	}
-	s, err := spec.Load(c.Args[0])
+	s, err := sf.load(c.Args[0])
 	if err != nil {
 		return err
 	}

@@ -31,6 +31,8 @@ func (f *outputFlags) registerReport(c *command) {
 
 func runLearn(args []string, stdout, stderr io.Writer) error {
 	c := newCommand("learn", "CORPUS -o SPEC.json [flags]", "Reads a training corpus, counts its features, applies the cutoffs and writes a spec.")
+	var sf specFlags // the --extend spec
+	sf.register(c.Flags)
 	var in cli.InputFlags
 	var an cli.AnalysisFlags
 	var rf runFlags
@@ -72,7 +74,7 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	var oldInput *spec.Input
 	var err error
 	if lf.extend != "" {
-		if old, err = spec.Load(lf.extend); err != nil {
+		if old, err = sf.load(lf.extend); err != nil {
 			return err
 		}
 		oldInput = &old.Content.Input
@@ -213,7 +215,7 @@ const minMemoryLimit = 16 << 20
 
 func (f *lifecycleFlags) check(set map[string]bool, of *outputFlags) error {
 	if f.memoryLimit != "" {
-		n, err := parseSize(f.memoryLimit)
+		n, err := cli.ParseSize(f.memoryLimit)
 		if err != nil {
 			return cli.Usagef("--memory-limit: %v", err)
 		}

@@ -4,7 +4,6 @@ import (
 	"crypto/sha256"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"runtime"
 	"strconv"
@@ -86,37 +85,6 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	return nil
 }
 
-// parseSize reads a memory size: a number with an optional unit. KiB, MiB,
-// GiB, TiB and the bare K, M, G, T are powers of 1024 (common practice,
-// as GNU sort -S reads them); KB, MB, GB, TB are powers of 1000; B or no
-// unit is bytes.
-func parseSize(s string) (int64, error) {
-	t := strings.TrimSpace(s)
-	i := 0
-	for i < len(t) && (t[i] >= '0' && t[i] <= '9' || t[i] == '.') {
-		i++
-	}
-	num, unit := t[:i], strings.ToUpper(strings.TrimSpace(t[i:]))
-	v, err := strconv.ParseFloat(num, 64)
-	if num == "" || err != nil {
-		return 0, fmt.Errorf("%q is not a size (say 512MiB, 2GB or 100M)", s)
-	}
-	mult := map[string]float64{"": 1, "B": 1,
-		"K": 1 << 10, "KIB": 1 << 10, "KB": 1e3,
-		"M": 1 << 20, "MIB": 1 << 20, "MB": 1e6,
-		"G": 1 << 30, "GIB": 1 << 30, "GB": 1e9,
-		"T": 1 << 40, "TIB": 1 << 40, "TB": 1e12}
-	m, ok := mult[unit]
-	if !ok {
-		return 0, fmt.Errorf("%q: unknown unit %q (use B, KiB, MiB, GiB, TiB, KB, MB, GB, TB, or K, M, G, T)", s, t[i:])
-	}
-	b := v * m
-	if b >= math.MaxInt64 {
-		return 0, fmt.Errorf("%q is too large", s)
-	}
-	return int64(b), nil
-}
-
 // extendFlagFields names the spec setting each analysis flag sets; with
 // --extend a flag may repeat the old spec's value but not change it.
 var extendFlagFields = []struct{ flag, field string }{
@@ -173,7 +141,7 @@ func describeExtension(w io.Writer, x *learn.Extension, oldPath string) {
 
 // describePruning prints what bounded counting dropped.
 func describePruning(w io.Writer, limit int64, capacity int, p *spec.Pruning) {
-	fmt.Fprintf(w, "\nmemory limit %s: at most %d distinct keys held at once", formatSize(limit), capacity)
+	fmt.Fprintf(w, "\nmemory limit %s: at most %d distinct keys held at once", cli.FormatSize(limit), capacity)
 	if peak := peakMemory(); peak > 0 {
 		fmt.Fprintf(w, "; peak memory %.1f MiB (resident)", float64(peak)/(1<<20))
 	}
@@ -185,16 +153,6 @@ func describePruning(w io.Writer, limit int64, capacity int, p *spec.Pruning) {
 	fmt.Fprintf(w, "pruned       %d evictions (space-saving; a key can be evicted more than once), holding %d document counts and %d occurrences\n", p.Evicted, p.EvictedDocs, p.EvictedCount)
 	fmt.Fprintf(w, "error bound  no pruned key was in more than %d documents; kept counts are never too high, exact but for\n", p.MaxDocs)
 	fmt.Fprintf(w, "             %d keys, and at most %d too low: every key in --min-docs + %d documents or more is kept\n", p.InexactKeys, p.MaxDocs, p.MaxDocs)
-}
-
-func formatSize(b int64) string {
-	switch {
-	case b >= 1<<30 && b%(1<<30) == 0:
-		return fmt.Sprintf("%dGiB", b>>30)
-	case b >= 1<<20 && b%(1<<20) == 0:
-		return fmt.Sprintf("%dMiB", b>>20)
-	}
-	return fmt.Sprintf("%d bytes", b)
 }
 
 // processMemory returns the process's resident set size and the part of

@@ -12,6 +12,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/bowline/bowline/internal/cli"
 	"github.com/bowline/bowline/internal/demo"
 	"github.com/bowline/bowline/spec"
 )
@@ -231,13 +232,13 @@ func TestInspectCutoffEffects(t *testing.T) {
 
 func TestParseSize(t *testing.T) {
 	for in, want := range map[string]int64{"512MiB": 512 << 20, "2GB": 2e9, "100M": 100 << 20, "64k": 64 << 10, "1.5GiB": 3 << 29, "4096": 4096, "16 MiB": 16 << 20, "10mb": 10e6} {
-		if got, err := parseSize(in); err != nil || got != want {
-			t.Errorf("parseSize(%q) = %d, %v; want %d", in, got, err, want)
+		if got, err := cli.ParseSize(in); err != nil || got != want {
+			t.Errorf("cli.ParseSize(%q) = %d, %v; want %d", in, got, err, want)
 		}
 	}
 	for _, bad := range []string{"", "MiB", "12 parsecs", "-5M", "1e3M"} {
-		if _, err := parseSize(bad); err == nil {
-			t.Errorf("parseSize(%q) accepted", bad)
+		if _, err := cli.ParseSize(bad); err == nil {
+			t.Errorf("cli.ParseSize(%q) accepted", bad)
 		}
 	}
 }
@@ -311,11 +312,11 @@ func TestMemoryLimitRSS(t *testing.T) {
 		workers string
 	}{{32 << 20, "1"}, {32 << 20, "2"}, {48 << 20, "2"}} {
 		limit := run.limit
-		cmd := subcommand(t, "learn", corpusPath, "-o", filepath.Join(dir, "s.json"), "--memory-limit", formatSize(limit), "--min-docs", "2", "--progress", "never", "--workers", run.workers)
+		cmd := subcommand(t, "learn", corpusPath, "-o", filepath.Join(dir, "s.json"), "--memory-limit", cli.FormatSize(limit), "--min-docs", "2", "--progress", "never", "--workers", run.workers)
 		var stderr bytes.Buffer
 		cmd.Stderr = &stderr
 		if err := cmd.Run(); err != nil {
-			t.Fatalf("learn --memory-limit %s: %v\n%s", formatSize(limit), err, stderr.String())
+			t.Fatalf("learn --memory-limit %s: %v\n%s", cli.FormatSize(limit), err, stderr.String())
 		}
 		m := peakRx.FindStringSubmatch(stderr.String())
 		if m == nil {
@@ -323,9 +324,9 @@ func TestMemoryLimitRSS(t *testing.T) {
 		}
 		mib, _ := strconv.ParseFloat(m[1], 64)
 		peak := int64(mib * (1 << 20))
-		t.Logf("--memory-limit %s: peak RSS %.1f MiB (%.3f of the limit)", formatSize(limit), float64(peak)/(1<<20), float64(peak)/float64(limit))
+		t.Logf("--memory-limit %s: peak RSS %.1f MiB (%.3f of the limit)", cli.FormatSize(limit), float64(peak)/(1<<20), float64(peak)/float64(limit))
 		if float64(peak) > 1.1*float64(limit) {
-			t.Errorf("--memory-limit %s: peak RSS %d bytes is more than 10%% above the limit", formatSize(limit), peak)
+			t.Errorf("--memory-limit %s: peak RSS %d bytes is more than 10%% above the limit", cli.FormatSize(limit), peak)
 		}
 		for _, want := range []string{"distinct keys held at once", "pruned", "error bound"} {
 			if !strings.Contains(stderr.String(), want) {

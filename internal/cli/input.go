@@ -15,6 +15,9 @@ type InputFlags struct {
 	ID         string   // --id field
 	NoHeader   bool     // --no-header
 	StrictUTF8 bool     // --strict-utf8
+	TSVEscapes bool     // --tsv-escapes
+	// RecordLimit is --record-limit (0: corpus.DefaultMaxRecord).
+	RecordLimit SizeFlag
 }
 
 // Register defines the corpus flags on fs.
@@ -25,6 +28,8 @@ func (f *InputFlags) Register(fs *flag.FlagSet) {
 	fs.StringVar(&f.Label, "label", "", "label field")
 	fs.StringVar(&f.ID, "id", "", "id field")
 	fs.BoolVar(&f.NoHeader, "no-header", false, "TSV/CSV first row is data; fields are column numbers")
+	fs.BoolVar(&f.TSVEscapes, "tsv-escapes", false, "TSV fields hold backslash escapes (\\t \\n \\r \\\\), as some database exports write them (default: fields are literal)")
+	fs.Var(&f.RecordLimit, "record-limit", "the most bytes one record may hold (a longer one stops the run, exit 3) [128MiB]")
 }
 
 // Options resolves the corpus options for path ("-" for standard input),
@@ -58,7 +63,12 @@ func (f *InputFlags) OptionsFor(format corpus.Format, def *spec.Input, given map
 	o.Text = f.Text
 	o.Label, o.ID, o.NoHeader = f.Label, f.ID, f.NoHeader
 	o.StrictUTF8 = f.StrictUTF8
+	o.TSVEscapes = f.TSVEscapes
+	o.MaxRecord = int64(f.RecordLimit)
 	if def != nil {
+		if !given["tsv-escapes"] {
+			o.TSVEscapes = def.TSVEscapes
+		}
 		if len(o.Text) == 0 {
 			o.Text = def.Text
 		}
@@ -89,6 +99,9 @@ func (f *InputFlags) OptionsFor(format corpus.Format, def *spec.Input, given map
 // text field called "line".
 func SpecInput(o corpus.Options) spec.Input {
 	in := spec.Input{Format: o.Format.String(), Text: o.Text, Label: o.Label, ID: o.ID, NoHeader: o.NoHeader}
+	if o.Format == corpus.TSV {
+		in.TSVEscapes = o.TSVEscapes
+	}
 	if o.Format == corpus.Lines {
 		in.Text = []string{"line"}
 	}

@@ -42,12 +42,13 @@ type Encoder struct {
 	pool     sync.Pool
 }
 
-// Load loads the spec at path as spec.Load does and makes its Encoder. The
+// Load loads the spec at path as o.Load does and makes its Encoder. The
 // vocabulary's keys are checked for duplicates once, while the encoder
 // indexes them; a duplicate key is then a *spec.LoadError matching
 // spec.ErrInvalid, as with spec.Load.
-func Load(path string) (*spec.Spec, *Encoder, error) {
-	s, err := spec.LoadOptions{KeysChecked: true}.Load(path)
+func Load(path string, o spec.LoadOptions) (*spec.Spec, *Encoder, error) {
+	o.KeysChecked = true
+	s, err := o.Load(path)
 	if err != nil {
 		return nil, nil, err
 	}

@@ -107,7 +107,7 @@ func TestLoadEncoderRefusesDuplicateKeys(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s2, enc, err := Load(p)
+	s2, enc, err := Load(p, spec.LoadOptions{})
 	if err != nil || enc == nil || !reflect.DeepEqual(s1, s2) {
 		t.Fatalf("LoadEncoder of a good spec: %v", err)
 	}
@@ -138,7 +138,7 @@ func TestLoadEncoderRefusesDuplicateKeys(t *testing.T) {
 		if _, err := spec.Load(p); !errors.As(err, &le) || !errors.Is(le.Reason, spec.ErrInvalid) {
 			t.Fatalf("order %d: Load gave %v, want an invalid spec", code, err)
 		}
-		_, _, err := Load(p)
+		_, _, err := Load(p, spec.LoadOptions{})
 		if !errors.As(err, &le) || !errors.Is(le.Reason, spec.ErrInvalid) || !strings.Contains(err.Error(), strconv.Quote(keys[a])) {
 			t.Fatalf("order %d: LoadEncoder gave %v, want an invalid spec naming %q", code, err, keys[a])
 		}

@@ -3,7 +3,9 @@
 package jsonscan
 
 import (
+	"bytes"
 	"errors"
+	"fmt"
 	"strconv"
 	"unicode/utf16"
 	"unicode/utf8"
@@ -60,6 +62,11 @@ var (
 	// encoding/json returns an UnmarshalTypeError). The value is left
 	// unread.
 	ErrType = errors.New("value of the wrong type")
+	// ErrDuplicateKey means an object holds the same key twice (RFC 8259
+	// section 4: names SHOULD be unique; encoding/json lets the last one
+	// win), refused when Scanner.UniqueKeys is set. The ParseError's
+	// offset is the second key's.
+	ErrDuplicateKey = errors.New("duplicate key")
 )
 
 // A ParseError is JSON text that cannot be read as asked, with the offset
@@ -123,11 +130,17 @@ func quoteChar(c byte) string {
 // A Scanner is not safe for use by several goroutines at once; several
 // Scanners may read the same input.
 type Scanner struct {
+	// UniqueKeys refuses an object that holds a key twice, with a
+	// *ParseError wrapping ErrDuplicateKey at the second one.
+	UniqueKeys bool
+
 	data    []byte
 	pos     int
-	depth   int    // objects and arrays open
-	keys    []byte // the unquoted keys of the objects open
-	scratch []byte // strings unquoted by Skip
+	depth   int      // objects and arrays open
+	keys    []byte   // the unquoted keys of the objects open
+	scratch []byte   // strings unquoted by Skip
+	seen    [][]byte // UniqueKeys: the keys of the objects open
+	sets    []map[string]struct{}
 }
 
 // New returns a Scanner at the start of data. The values it returns may
@@ -136,7 +149,7 @@ func New(data []byte) *Scanner { return &Scanner{data: data} }
 
 // Reset moves s to the start of data, keeping its buffers.
 func (s *Scanner) Reset(data []byte) {
-	*s = Scanner{data: data, keys: s.keys[:0], scratch: s.scratch[:0]}
+	*s = Scanner{UniqueKeys: s.UniqueKeys, data: data, keys: s.keys[:0], scratch: s.scratch[:0], seen: s.seen[:0], sets: s.sets[:0]}
 }
 
 // Offset returns the offset of the scan in the input.
@@ -273,17 +286,24 @@ func (s *Scanner) Object(member func(key []byte) error) error {
 		return err
 	}
 	base := len(s.keys)
+	seenBase, setBase := len(s.seen), len(s.sets)
 	// Every key of every object read, skipped ones too, passes here.
 	err := s.items('}', afterMember, func() error {
 		if s.data[s.pos] != '"' {
 			return s.fail(inKey)
 		}
+		at := s.pos
 		key, copied, err := s.String(s.keys)
 		if err != nil {
 			return err
 		}
 		if copied {
 			key, s.keys = key[len(s.keys):len(key):len(key)], key
+		}
+		if s.UniqueKeys {
+			if err := s.unique(key, at, seenBase, setBase); err != nil {
+				return err
+			}
 		}
 		s.space()
 		if s.pos == len(s.data) || s.data[s.pos] != ':' {
@@ -297,8 +317,45 @@ func (s *Scanner) Object(member func(key []byte) error) error {
 		return member(key)
 	})
 	s.keys = s.keys[:base]
+	s.seen, s.sets = s.seen[:seenBase], s.sets[:setBase]
 	s.depth--
 	return err
+}
+
+// uniqueSetFrom is the number of keys from which an object's keys are
+// looked up in a set rather than compared one by one.
+const uniqueSetFrom = 32
+
+// unique notes key, found at offset at, among the keys of the object
+// being read (those from seenBase on, or the set at setBase once there
+// are many), or refuses it when it is there already.
+func (s *Scanner) unique(key []byte, at, seenBase, setBase int) error {
+	dup := func() error {
+		return &ParseError{Offset: at, Err: fmt.Errorf("%w %q", ErrDuplicateKey, key)}
+	}
+	if len(s.sets) > setBase {
+		set := s.sets[setBase]
+		if _, ok := set[string(key)]; ok {
+			return dup()
+		}
+		set[string(key)] = struct{}{}
+		return nil
+	}
+	for _, k := range s.seen[seenBase:] {
+		if bytes.Equal(k, key) {
+			return dup()
+		}
+	}
+	s.seen = append(s.seen, key)
+	if len(s.seen)-seenBase == uniqueSetFrom {
+		set := make(map[string]struct{}, 2*uniqueSetFrom)
+		for _, k := range s.seen[seenBase:] {
+			set[string(k)] = struct{}{}
+		}
+		s.seen = s.seen[:seenBase]
+		s.sets = append(s.sets, set)
+	}
+	return nil
 }
 
 // Array reads the array at the scan, calling elem for each element with
