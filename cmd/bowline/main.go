@@ -79,6 +79,12 @@ func init() {
 // as serve sets it to shut down gracefully.
 var signalHook atomic.Pointer[func(os.Signal)]
 
+// stopping is set when the default handling of SIGINT or SIGTERM has
+// begun: from then on the handler ends the process (exit 130), and a
+// command that fails because its temporary files were removed under it
+// neither reports that failure nor exits with its code.
+var stopping atomic.Bool
+
 func main() {
 	// A closed stdout pipe (| head) makes writes fail with EPIPE instead of
 	// killing the process, so deferred clean-up runs and the run ends
@@ -92,11 +98,16 @@ func main() {
 			(*h)(s)
 			return
 		}
+		stopping.Store(true)
 		atomicfile.AbortAll()
 		fmt.Fprintf(os.Stderr, "bowline: stopped by %v; no partial output left\n", s)
 		os.Exit(130)
 	}()
-	os.Exit(profiled(func() int { return run(os.Args[1:], os.Stdout, os.Stderr) }))
+	code := profiled(func() int { return run(os.Args[1:], os.Stdout, os.Stderr) })
+	if stopping.Load() {
+		select {} // the signal handler exits
+	}
+	os.Exit(code)
 }
 
 // profiled runs fn, writing a CPU profile to $BOWLINE_CPUPROFILE and a heap
@@ -165,6 +176,9 @@ func exitCode(err error, stderr io.Writer) int {
 	}
 	if errors.Is(err, syscall.EPIPE) {
 		return exitOK // a closed stdout pipe ends quietly
+	}
+	if stopping.Load() {
+		return exitFailure // the signal handler reports and exits
 	}
 	fmt.Fprintf(stderr, "bowline: %v\n", err)
 	var u *cli.UsageError
