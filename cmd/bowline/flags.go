@@ -25,8 +25,9 @@ func newCommand(name, args, about string) *command {
 	return &command{cli.NewCommand(name, args, about)}
 }
 
-// parse parses flags and positional arguments in any order; "--" ends
-// flags.
+// parse parses flags and positional arguments in any order ("--" ends
+// flags), then refuses outputs that would overwrite an input or one
+// another (cli.Command.CheckFiles), before anything is read.
 func (c *command) parse(args []string) error {
 	if err := c.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -39,13 +40,18 @@ func (c *command) parse(args []string) error {
 		}
 		return cli.Usagef("%s: %s (see bowline %s --help)", c.Name, msg, c.Name)
 	}
-	return nil
+	return c.CheckFiles()
 }
 
 func (c *command) usage(w io.Writer) {
 	fmt.Fprintf(w, "usage: bowline %s %s\n\n%s\n\nflags:\n", c.Name, c.Synopsis, c.About)
 	c.PrintFlags(w, nil)
 }
+
+// stdoutPath is the path of an output that goes to standard output, for
+// commands that print their result there: another output given "-" would
+// mix with it.
+func stdoutPath() []string { return []string{"-"} }
 
 // fieldNames lists the names of table fields.
 func fieldNames(fs []spec.TableField) []string {
@@ -92,9 +98,9 @@ type errorFlags struct {
 	rejects string
 }
 
-func (f *errorFlags) register(fs *flag.FlagSet) {
-	fs.StringVar(&f.onError, "on-error", "stop", "a record that cannot be read: stop (exit 3) or skip (into --rejects)")
-	fs.StringVar(&f.rejects, "rejects", "", "with --on-error skip: write each skipped record, as read, to FILE")
+func (f *errorFlags) register(c *command) {
+	c.Flags.StringVar(&f.onError, "on-error", "stop", "a record that cannot be read: stop (exit 3) or skip (into --rejects)")
+	c.OutputFlag(&f.rejects, "rejects", "", "with --on-error skip: write each skipped record, as read, to FILE")
 }
 
 func (f *errorFlags) check() error {

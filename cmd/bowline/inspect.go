@@ -21,7 +21,9 @@ func runInspect(args []string, stdout, stderr io.Writer) error {
 	var fmap string
 	var asJSON bool
 	c.Flags.IntVar(&top, "top", 20, "how many top terms to list")
-	c.Flags.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.InputArgs("the spec")
+	c.OutputFlag(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.Outputs("the description", stdoutPath)
 	c.Flags.BoolVar(&asJSON, "json", false, "print the description as JSON (stable field names) instead of text")
 	if err := c.parse(args); err != nil {
 		return err

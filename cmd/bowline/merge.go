@@ -46,8 +46,9 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	var cf cutoffFlags
 	var out, fmap string
 	cf.register(c)
-	c.Flags.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
-	c.Flags.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.InputArgs("the count shard")
+	c.OutputFlag(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	c.OutputFlag(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
 	if err := c.parse(args); err != nil {
 		return err
 	}

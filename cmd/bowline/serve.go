@@ -39,7 +39,7 @@ func runServe(args []string, stdout, stderr io.Writer) error {
 	var maxDocs int
 	t := serve.DefaultTimeouts
 	var grace time.Duration
-	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	c.InputFlag(&specPath, "spec", "", "spec file written by bowline learn")
 	c.Flags.StringVar(&addr, "addr", "127.0.0.1:8080", "address to listen on; the default answers this machine only")
 	c.Flags.Int64Var(&maxBody, "max-body", serve.DefaultMaxBody, "largest request body, in bytes")
 	c.Flags.IntVar(&maxDocs, "max-docs", serve.DefaultMaxDocuments, "most documents in one request")

@@ -251,12 +251,31 @@ func (f *AnalysisFlags) Settings(in spec.Input, set map[string]bool) (*learn.Set
 	return s, nil
 }
 
-// stopSource reads a --stop argument: a built-in language code or a file.
-func stopSource(src string) ([]string, error) {
+// StopFiles returns the --stop sources that name files: neither none nor
+// a built-in list. Commands declare them as inputs (see CheckFiles).
+func (f *AnalysisFlags) StopFiles() []string {
+	var out []string
+	for _, src := range f.Stop {
+		if src != "none" && !builtinStop(src) {
+			out = append(out, src)
+		}
+	}
+	return out
+}
+
+func builtinStop(src string) bool {
 	for _, l := range stopwords.Languages() {
 		if l == src {
-			return stopwords.Builtin(src)
+			return true
 		}
+	}
+	return false
+}
+
+// stopSource reads a --stop argument: a built-in language code or a file.
+func stopSource(src string) ([]string, error) {
+	if builtinStop(src) {
+		return stopwords.Builtin(src)
 	}
 	f, err := os.Open(src)
 	if err != nil {
