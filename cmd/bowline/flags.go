@@ -2,6 +2,8 @@ package main
 
 import (
 	"bufio"
+	"compress/flate"
+	"compress/gzip"
 	"errors"
 	"flag"
 	"fmt"
@@ -179,9 +181,12 @@ func (r *rejectsFile) summary(stderr io.Writer) {
 	}
 }
 
-// openCorpus opens a corpus and classifies a failure: a file that cannot be
-// read is an I/O error (exit 4), a damaged first record bad data (exit 3),
-// and a field the file does not have a command-line mistake (exit 2).
+// openCorpus opens a corpus and classifies a failure (README "Exit
+// codes"): a file that cannot be read, or a folder, is an I/O error
+// (exit 4); a file read but damaged (a corrupt or truncated archive, a
+// damaged first record), empty where a header row is due, or without a
+// field that is named, is bad data (exit 3); options that no file could
+// satisfy are a bad command line (exit 2).
 func openCorpus(path string, o corpus.Options) (*corpus.Reader, error) {
 	r, err := corpus.Open(path, o)
 	if err == nil {
@@ -189,12 +194,16 @@ func openCorpus(path string, o corpus.Options) (*corpus.Reader, error) {
 	}
 	var pe *corpus.ParseError
 	var pathErr *os.PathError
+	var flateErr flate.CorruptInputError
 	switch {
-	case errors.As(err, &pe):
+	case errors.As(err, &pe), errors.Is(err, corpus.ErrNoHeader), errors.Is(err, corpus.ErrNoField), errors.Is(err, corpus.ErrAmbiguousField):
 		return nil, err
 	case errors.As(err, &pathErr):
 		return nil, &ioError{fmt.Errorf("cannot read %s: %v", path, pathErr.Err)}
-	case strings.Contains(err.Error(), "gzip"):
+	case errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, gzip.ErrChecksum), errors.Is(err, gzip.ErrHeader), errors.As(err, &flateErr):
+		return nil, &dataError{err}
+	}
+	if st, serr := os.Stat(path); serr == nil && st.IsDir() {
 		return nil, &ioError{err}
 	}
 	return nil, &cli.UsageError{Msg: err.Error()}

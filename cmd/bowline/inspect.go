@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bufio"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -44,10 +45,15 @@ func runInspect(args []string, stdout, stderr io.Writer) error {
 		enc.SetEscapeHTML(false)
 		enc.SetIndent("", "  ")
 		if err := enc.Encode(v); err != nil {
-			return err
+			return &ioError{err}
 		}
 	} else {
-		v.writeText(stdout)
+		// A bufio.Writer keeps the first write error for Flush.
+		bw := bufio.NewWriter(stdout)
+		v.writeText(bw)
+		if err := bw.Flush(); err != nil {
+			return &ioError{err}
+		}
 	}
 	if fmap != "" {
 		return writeFeatureMap(fmap, s, 1)

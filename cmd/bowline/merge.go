@@ -2,6 +2,7 @@ package main
 
 import (
 	"crypto/sha256"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -67,7 +68,12 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	}
 	sh, err := learn.MergeShards(c.Args)
 	if err != nil {
-		return err
+		var she *vocab.ShardError
+		var pathErr *os.PathError
+		if errors.As(err, &she) || errors.As(err, &pathErr) {
+			return err
+		}
+		return &dataError{err} // shards counted with other settings
 	}
 	s, rep, err := sh.Learn(cut)
 	if err != nil {

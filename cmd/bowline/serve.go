@@ -80,7 +80,10 @@ func runServe(args []string, stdout, stderr io.Writer) error {
 	}
 	ln, err := net.Listen("tcp", addr)
 	if err != nil {
-		return fmt.Errorf("--addr %s: %w", addr, err)
+		// The address cannot be used (in use, not this machine's, not
+		// allowed): choosing another is the fix, so it is the command
+		// line's (exit 2), as a malformed address is.
+		return cli.Usagef("--addr %s: %v", addr, err)
 	}
 	if !isLoopback(ln.Addr()) {
 		log.Warn("listening beyond this machine: anyone who can reach the address can use the encoder", "addr", ln.Addr().String())
