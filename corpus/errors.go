@@ -24,6 +24,34 @@ var (
 	ErrRecordTooLong = errors.New("record too long")
 )
 
+// Errors of a TSV or CSV file whose header does not fit the fields named
+// in Options: problems of the file, not of the options (an option no
+// file could satisfy, such as column number 0, is a plain error).
+var (
+	// ErrNoHeader means a TSV or CSV file read with a header row is empty.
+	ErrNoHeader = errors.New("empty file, expected a header row")
+	// ErrNoField means the header lacks a named field, or a column
+	// number is past the file's last column.
+	ErrNoField = errors.New("field not in the file")
+	// ErrAmbiguousField means the header has a named field twice.
+	ErrAmbiguousField = errors.New("field in the header twice")
+	// ErrHeaderName means a field names a header cell that is not valid
+	// UTF-8. Field names are kept in specs as text, where such a name
+	// cannot be written as it is; it comes as a *ParseError with the
+	// cell's position, and the column can be named by its number.
+	ErrHeaderName = errors.New("header name is not valid UTF-8")
+)
+
+// headerError is an error of the header with its own message; errors.Is
+// matches its kind (ErrNoHeader, ErrNoField, ErrAmbiguousField).
+type headerError struct {
+	msg  string
+	kind error
+}
+
+func (e *headerError) Error() string { return e.msg }
+func (e *headerError) Unwrap() error { return e.kind }
+
 // A ParseError reports a problem in a corpus file with its position.
 // Line and Column are 1-based; Column counts bytes from the start of the
 // line as stored in the file (after gzip decompression). A zero Line or

@@ -91,6 +91,8 @@ type Reader struct {
 	header []string
 	// maxRecord is Options.MaxRecord, or DefaultMaxRecord.
 	maxRecord int64
+	// headerPos holds the line and byte column of each header cell.
+	headerPos [][2]int64
 
 	// TSV and CSV: column index of each wanted field (-1 for none).
 	textCols []int
@@ -202,7 +204,10 @@ func Open(path string, o Options) (*Reader, error) {
 // Gzip input is recognized by its magic bytes. NewReader checks the
 // options, reads the header row of TSV and CSV files (or, with NoHeader,
 // the first row, to learn the width) and resolves the fields; an unknown
-// field name is an error naming the field and listing the header.
+// field name is an error naming the field and listing the header. A file
+// that does not fit the fields named gives an error that errors.Is
+// matches with [ErrNoHeader], [ErrNoField], [ErrAmbiguousField] or
+// [ErrHeaderName].
 // Closing the Reader does not close r.
 func NewReader(r io.Reader, name string, o Options) (*Reader, error) {
 	if err := checkOptions(o); err != nil {
@@ -294,7 +299,7 @@ func (r *Reader) openTable() error {
 	if !r.opt.NoHeader {
 		h, err := r.readHeader()
 		if err == io.EOF {
-			return fmt.Errorf("%s: empty file, expected a header row", r.name)
+			return &headerError{fmt.Sprintf("%s: empty file, expected a header row", r.name), ErrNoHeader}
 		}
 		if err != nil {
 			return err
@@ -356,6 +361,10 @@ func (r *Reader) readHeader() ([]string, error) {
 		if err != nil {
 			return nil, r.csvError(err, row)
 		}
+		for i := range row {
+			line, col := r.cr.FieldPos(i)
+			r.headerPos = append(r.headerPos, [2]int64{int64(line), int64(r.column(int64(line), col))})
+		}
 		return append([]string(nil), row...), nil
 	}
 	line, err := r.readLine()
@@ -363,7 +372,10 @@ func (r *Reader) readHeader() ([]string, error) {
 		return nil, err
 	}
 	var h []string
+	col := 1
 	for _, f := range splitTab(line, nil) {
+		r.headerPos = append(r.headerPos, [2]int64{r.line, int64(r.column(r.line, col))})
+		col += len(f) + 1
 		if r.opt.TSVEscapes {
 			f = unescapeTSV(f)
 		}
@@ -378,12 +390,17 @@ func (r *Reader) resolve(name string) (int, error) {
 	for i, h := range r.header {
 		if h == name {
 			if found >= 0 {
-				return 0, fmt.Errorf("field %q is ambiguous: the header of %s has it in columns %d and %d", name, r.name, found+1, i+1)
+				return 0, &headerError{fmt.Sprintf("field %q is ambiguous: the header of %s has it in columns %d and %d", name, r.name, found+1, i+1), ErrAmbiguousField}
 			}
 			found = i
 		}
 	}
 	if found >= 0 {
+		if !utf8.ValidString(name) {
+			pos := r.headerPos[found]
+			return 0, &ParseError{File: r.name, Line: pos[0], Column: int(pos[1]), Field: name,
+				Err: fmt.Errorf("%w: a spec keeps field names as text; name this column by its number, %d", ErrHeaderName, found+1)}
+		}
 		return found, nil
 	}
 	if n, err := strconv.Atoi(name); err == nil && name[0] != '+' && name[0] != '-' {
@@ -391,14 +408,14 @@ func (r *Reader) resolve(name string) (int, error) {
 			return 0, fmt.Errorf("field %q: column numbers start at 1", name)
 		}
 		if r.width > 0 && n > r.width {
-			return 0, fmt.Errorf("field %q: column %d is out of range; %s has %d columns", name, n, r.name, r.width)
+			return 0, &headerError{fmt.Sprintf("field %q: column %d is out of range; %s has %d columns", name, n, r.name, r.width), ErrNoField}
 		}
 		return n - 1, nil
 	}
 	if r.opt.NoHeader {
 		return 0, fmt.Errorf("field %q: without a header row, fields must be 1-based column numbers", name)
 	}
-	return 0, fmt.Errorf("field %q not found in the header of %s (columns: %s)", name, r.name, listHeader(r.header))
+	return 0, &headerError{fmt.Sprintf("field %q not found in the header of %s (columns: %s)", name, r.name, listHeader(r.header)), ErrNoField}
 }
 
 func listHeader(h []string) string {

@@ -45,7 +45,7 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 	o := demo.DefaultOptions()
 	o.Docs = docs
 	if err := demo.WriteTSV(&all, o); err != nil {
-		return err
+		return err // a bytes.Buffer: an unexpected failure
 	}
 	lines := strings.SplitAfter(strings.TrimSuffix(all.String(), "\n"), "\n")
 	header, body := lines[0], lines[1:]
@@ -92,7 +92,8 @@ func runDemo(args []string, stdout, stderr io.Writer) error {
 		var sink io.Writer = &buf
 		if code := run(st.args, stdout, sink); code != 0 {
 			stderr.Write(buf.Bytes())
-			return fmt.Errorf("demo step %d failed (exit %d)", i+1, code)
+			fmt.Fprintf(stderr, "bowline: demo step %d failed (exit %d)\n", i+1, code)
+			return &codeError{code, fmt.Errorf("demo step %d failed", i+1)}
 		}
 		if st.show {
 			stderr.Write(buf.Bytes())

@@ -21,12 +21,14 @@ func runDrift(args []string, stdout, stderr io.Writer) error {
 	in.Register(c.Flags)
 	rf.register(c.Flags)
 	var ef errorFlags
-	ef.register(c.Flags)
-	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	ef.register(c)
+	c.InputArgs("the corpus")
+	c.InputFlag(&specPath, "spec", "", "spec file written by bowline learn")
 	var sf specFlags
 	sf.register(c.Flags)
 	c.Flags.IntVar(&top, "top", drift.DefaultTop, "how many unseen and moved keys to list")
-	c.Flags.StringVar(&reportPath, "report", "", "also write the figures to FILE.json or FILE.html")
+	c.OutputFlag(&reportPath, "report", "", "also write the figures to FILE.json or FILE.html")
+	c.Outputs("the figures", stdoutPath)
 	if err := c.parse(args); err != nil {
 		return err
 	}

@@ -162,13 +162,13 @@ func TestBadInput(t *testing.T) {
 		want string
 	}{
 		{[]string{"learn", p("missing.tsv"), "-o", p("out.json")}, exitIO, "missing.tsv"},
-		{[]string{"learn", p("train.tsv"), "--text", "body", "-o", p("out.json")}, exitUsage, `"body"`},
+		{[]string{"learn", p("train.tsv"), "--text", "body", "-o", p("out.json")}, exitData, `"body"`},
 		{[]string{"learn", p("train.tsv"), "--frobnicate", "-o", p("out.json")}, exitUsage, "frobnicate"},
 		{[]string{"learn", p("train.tsv"), "--words", "3-1", "-o", p("out.json")}, exitUsage, "--words"},
 		{[]string{"learn", p("train.tsv"), "--hash", "0", "-o", p("out.json")}, exitUsage, "--hash"},
 		{[]string{"learn", p("train.tsv"), "--max-doc-share", "1.5", "-o", p("out.json")}, exitUsage, "1.5"},
 		{[]string{"learn", p("train.tsv"), "--stem", "klingon", "-o", p("out.json")}, exitUsage, "klingon"},
-		{[]string{"learn", p("train.tsv"), "--stop", p("nostop.txt"), "-o", p("out.json")}, exitUsage, "nostop.txt"},
+		{[]string{"learn", p("train.tsv"), "--stop", p("nostop.txt"), "-o", p("out.json")}, exitIO, "nostop.txt"},
 		{[]string{"encode", "--spec", p("spec.json"), p("words.tsv"), "-o", p("out.svm")}, exitData, "bikes"},
 		{[]string{"encode", "--spec", p("nospec.json"), p("words.tsv"), "-o", p("out.svm")}, exitIO, "nospec.json"},
 	}

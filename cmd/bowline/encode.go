@@ -21,21 +21,22 @@ func runEncode(args []string, stdout, stderr io.Writer) error {
 	var of outputFlags
 	var specPath, fallback string
 	var ef errorFlags
-	ef.register(c.Flags)
+	ef.register(c)
 	in.Register(c.Flags)
 	rf.register(c.Flags)
-	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	c.InputArgs("the corpus")
+	c.InputFlag(&specPath, "spec", "", "spec file written by bowline learn")
 	var sf specFlags
 	sf.register(c.Flags)
-	c.Flags.StringVar(&of.out, "o", "-", "rows file to write (- is standard output)")
+	c.OutputFlag(&of.out, "o", "-", "rows file to write (- is standard output)")
 	c.Flags.IntVar(&of.indexBase, "index-base", 1, "index of the first column: 1 or 0")
 	c.Flags.BoolVar(&of.withIDs, "with-ids", false, "append \"# id\" to every row")
-	c.Flags.StringVar(&of.featureMap, "feature-map", "", "also write the feature map to FILE")
+	c.OutputFlag(&of.featureMap, "feature-map", "", "also write the feature map to FILE")
 	c.Flags.StringVar(&fallback, "label-fallback", "", "label for rows whose label the spec has not seen (default: error)")
 	var explainN int
 	var explainOut string
 	c.Flags.IntVar(&explainN, "explain-buckets", 0, "hashing mode: name the keys of the N most crowded buckets")
-	c.Flags.StringVar(&explainOut, "explain-out", "", "with --explain-buckets: also write column, keys in bucket and key to FILE")
+	c.OutputFlag(&explainOut, "explain-out", "", "with --explain-buckets: also write column, keys in bucket and key to FILE")
 	of.registerReport(c)
 	if err := refuseLearnFlags(c, args, specPath); err != nil {
 		return err

@@ -2,6 +2,8 @@ package main
 
 import (
 	"bufio"
+	"compress/flate"
+	"compress/gzip"
 	"errors"
 	"flag"
 	"fmt"
@@ -25,8 +27,9 @@ func newCommand(name, args, about string) *command {
 	return &command{cli.NewCommand(name, args, about)}
 }
 
-// parse parses flags and positional arguments in any order; "--" ends
-// flags.
+// parse parses flags and positional arguments in any order ("--" ends
+// flags), then refuses outputs that would overwrite an input or one
+// another (cli.Command.CheckFiles), before anything is read.
 func (c *command) parse(args []string) error {
 	if err := c.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -39,13 +42,18 @@ func (c *command) parse(args []string) error {
 		}
 		return cli.Usagef("%s: %s (see bowline %s --help)", c.Name, msg, c.Name)
 	}
-	return nil
+	return c.CheckFiles()
 }
 
 func (c *command) usage(w io.Writer) {
 	fmt.Fprintf(w, "usage: bowline %s %s\n\n%s\n\nflags:\n", c.Name, c.Synopsis, c.About)
 	c.PrintFlags(w, nil)
 }
+
+// stdoutPath is the path of an output that goes to standard output, for
+// commands that print their result there: another output given "-" would
+// mix with it.
+func stdoutPath() []string { return []string{"-"} }
 
 // fieldNames lists the names of table fields.
 func fieldNames(fs []spec.TableField) []string {
@@ -92,9 +100,9 @@ type errorFlags struct {
 	rejects string
 }
 
-func (f *errorFlags) register(fs *flag.FlagSet) {
-	fs.StringVar(&f.onError, "on-error", "stop", "a record that cannot be read: stop (exit 3) or skip (into --rejects)")
-	fs.StringVar(&f.rejects, "rejects", "", "with --on-error skip: write each skipped record, as read, to FILE")
+func (f *errorFlags) register(c *command) {
+	c.Flags.StringVar(&f.onError, "on-error", "stop", "a record that cannot be read: stop (exit 3) or skip (into --rejects)")
+	c.OutputFlag(&f.rejects, "rejects", "", "with --on-error skip: write each skipped record, as read, to FILE")
 }
 
 func (f *errorFlags) check() error {
@@ -173,9 +181,12 @@ func (r *rejectsFile) summary(stderr io.Writer) {
 	}
 }
 
-// openCorpus opens a corpus and classifies a failure: a file that cannot be
-// read is an I/O error (exit 4), a damaged first record bad data (exit 3),
-// and a field the file does not have a command-line mistake (exit 2).
+// openCorpus opens a corpus and classifies a failure (README "Exit
+// codes"): a file that cannot be read, or a folder, is an I/O error
+// (exit 4); a file read but damaged (a corrupt or truncated archive, a
+// damaged first record), empty where a header row is due, or without a
+// field that is named, is bad data (exit 3); options that no file could
+// satisfy are a bad command line (exit 2).
 func openCorpus(path string, o corpus.Options) (*corpus.Reader, error) {
 	r, err := corpus.Open(path, o)
 	if err == nil {
@@ -183,12 +194,16 @@ func openCorpus(path string, o corpus.Options) (*corpus.Reader, error) {
 	}
 	var pe *corpus.ParseError
 	var pathErr *os.PathError
+	var flateErr flate.CorruptInputError
 	switch {
-	case errors.As(err, &pe):
+	case errors.As(err, &pe), errors.Is(err, corpus.ErrNoHeader), errors.Is(err, corpus.ErrNoField), errors.Is(err, corpus.ErrAmbiguousField):
 		return nil, err
 	case errors.As(err, &pathErr):
 		return nil, &ioError{fmt.Errorf("cannot read %s: %v", path, pathErr.Err)}
-	case strings.Contains(err.Error(), "gzip"):
+	case errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, gzip.ErrChecksum), errors.Is(err, gzip.ErrHeader), errors.As(err, &flateErr):
+		return nil, &dataError{err}
+	}
+	if st, serr := os.Stat(path); serr == nil && st.IsDir() {
 		return nil, &ioError{err}
 	}
 	return nil, &cli.UsageError{Msg: err.Error()}

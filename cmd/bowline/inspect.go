@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bufio"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -23,7 +24,9 @@ func runInspect(args []string, stdout, stderr io.Writer) error {
 	var fmap string
 	var asJSON bool
 	c.Flags.IntVar(&top, "top", 20, "how many top terms to list")
-	c.Flags.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.InputArgs("the spec")
+	c.OutputFlag(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.Outputs("the description", stdoutPath)
 	c.Flags.BoolVar(&asJSON, "json", false, "print the description as JSON (stable field names) instead of text")
 	if err := c.parse(args); err != nil {
 		return err
@@ -44,10 +47,15 @@ func runInspect(args []string, stdout, stderr io.Writer) error {
 		enc.SetEscapeHTML(false)
 		enc.SetIndent("", "  ")
 		if err := enc.Encode(v); err != nil {
-			return err
+			return &ioError{err}
 		}
 	} else {
-		v.writeText(stdout)
+		// A bufio.Writer keeps the first write error for Flush.
+		bw := bufio.NewWriter(stdout)
+		v.writeText(bw)
+		if err := bw.Flush(); err != nil {
+			return &ioError{err}
+		}
 	}
 	if fmap != "" {
 		return writeFeatureMap(fmap, s, 1)

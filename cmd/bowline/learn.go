@@ -26,7 +26,7 @@ type outputFlags struct {
 }
 
 func (f *outputFlags) registerReport(c *command) {
-	c.Flags.StringVar(&f.report, "report", "", "also write the run's figures to FILE.json or FILE.html")
+	c.OutputFlag(&f.report, "report", "", "also write the run's figures to FILE.json or FILE.html")
 }
 
 func runLearn(args []string, stdout, stderr io.Writer) error {
@@ -42,9 +42,11 @@ func runLearn(args []string, stdout, stderr io.Writer) error {
 	an.RegisterTable(c.Flags)
 	rf.register(c.Flags)
 	var ef errorFlags
-	ef.register(c.Flags)
-	c.Flags.StringVar(&of.out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
-	c.Flags.StringVar(&of.featureMap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	ef.register(c)
+	c.InputArgs("the corpus")
+	c.Inputs("--stop", an.StopFiles)
+	c.OutputFlag(&of.out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	c.OutputFlag(&of.featureMap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
 	of.registerReport(c)
 	var lf lifecycleFlags
 	lf.register(c)
@@ -205,9 +207,9 @@ type lifecycleFlags struct {
 }
 
 func (f *lifecycleFlags) register(c *command) {
-	c.Flags.StringVar(&f.extend, "extend", "", "refresh OLD_SPEC: keep its settings and every column at its index, append new keys")
+	c.InputFlag(&f.extend, "extend", "", "refresh OLD_SPEC: keep its settings and every column at its index, append new keys")
 	c.Flags.StringVar(&f.memoryLimit, "memory-limit", "", "count within SIZE of memory (512MiB, 2GB, 100M), pruning the rarest keys past it")
-	c.Flags.StringVar(&f.countsOut, "counts-out", "", "write the exact counts, before cutoffs, to FILE (a count shard for bowline merge) instead of a spec")
+	c.OutputFlag(&f.countsOut, "counts-out", "", "write the exact counts, before cutoffs, to FILE (a count shard for bowline merge) instead of a spec")
 }
 
 // minMemoryLimit is the smallest --memory-limit accepted.
@@ -238,7 +240,11 @@ func (f *lifecycleFlags) check(set map[string]bool, of *outputFlags) error {
 				"feature-map":   "a shard has no columns yet; bowline merge writes the feature map",
 				"o":             "--counts-out writes a count shard instead of a spec",
 			}[other]
-			return cli.Usagef("--%s does not go with --counts-out: %s", other, why)
+			flag := "--" + other
+			if other == "o" {
+				flag = "-o"
+			}
+			return cli.Usagef("%s does not go with --counts-out: %s", flag, why)
 		}
 	}
 	if set["hash"] {

@@ -5,6 +5,7 @@
 package main
 
 import (
+	"compress/flate"
 	"compress/gzip"
 	"errors"
 	"flag"
@@ -79,6 +80,12 @@ func init() {
 // as serve sets it to shut down gracefully.
 var signalHook atomic.Pointer[func(os.Signal)]
 
+// stopping is set when the default handling of SIGINT or SIGTERM has
+// begun: from then on the handler ends the process (exit 130), and a
+// command that fails because its temporary files were removed under it
+// neither reports that failure nor exits with its code.
+var stopping atomic.Bool
+
 func main() {
 	// A closed stdout pipe (| head) makes writes fail with EPIPE instead of
 	// killing the process, so deferred clean-up runs and the run ends
@@ -92,11 +99,16 @@ func main() {
 			(*h)(s)
 			return
 		}
+		stopping.Store(true)
 		atomicfile.AbortAll()
 		fmt.Fprintf(os.Stderr, "bowline: stopped by %v; no partial output left\n", s)
 		os.Exit(130)
 	}()
-	os.Exit(profiled(func() int { return run(os.Args[1:], os.Stdout, os.Stderr) }))
+	code := profiled(func() int { return run(os.Args[1:], os.Stdout, os.Stderr) })
+	if stopping.Load() {
+		select {} // the signal handler exits
+	}
+	os.Exit(code)
 }
 
 // profiled runs fn, writing a CPU profile to $BOWLINE_CPUPROFILE and a heap
@@ -166,6 +178,13 @@ func exitCode(err error, stderr io.Writer) int {
 	if errors.Is(err, syscall.EPIPE) {
 		return exitOK // a closed stdout pipe ends quietly
 	}
+	if stopping.Load() {
+		return exitFailure // the signal handler reports and exits
+	}
+	var ce *codeError
+	if errors.As(err, &ce) {
+		return ce.code // already reported
+	}
 	fmt.Fprintf(stderr, "bowline: %v\n", err)
 	var u *cli.UsageError
 	var pe *corpus.ParseError
@@ -174,6 +193,7 @@ func exitCode(err error, stderr io.Writer) int {
 	var se *stopwords.ParseError
 	var she *vocab.ShardError
 	var pathErr *os.PathError
+	var flateErr flate.CorruptInputError
 	switch {
 	case errors.As(err, &u):
 		return exitUsage
@@ -182,20 +202,46 @@ func exitCode(err error, stderr io.Writer) int {
 			return exitIO
 		}
 		return exitSpec
-	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se), errors.As(err, &she), errors.Is(err, pipeline.ErrNoRecords):
+	case errors.As(err, new(*dataError)):
 		return exitData
-	case errors.As(err, &pathErr), errors.As(err, new(*ioError)),
-		errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, gzip.ErrChecksum), errors.Is(err, gzip.ErrHeader):
+	case errors.As(err, new(*ioError)):
 		return exitIO
+	case errors.As(err, &pe), errors.As(err, &re), errors.As(err, &se), errors.As(err, &she), errors.Is(err, pipeline.ErrNoRecords),
+		errors.Is(err, corpus.ErrNoHeader), errors.Is(err, corpus.ErrNoField), errors.Is(err, corpus.ErrAmbiguousField):
+		return exitData
+	case errors.As(err, &pathErr):
+		return exitIO
+	case errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, gzip.ErrChecksum), errors.Is(err, gzip.ErrHeader), errors.As(err, &flateErr):
+		// A file that was read but is damaged: a truncated or corrupt
+		// archive.
+		return exitData
 	}
 	return exitFailure
 }
 
-// ioError marks an input/output failure (exit code 4).
+// ioError marks an input/output failure (exit code 4): a file that
+// cannot be read or written.
 type ioError struct{ err error }
 
 func (e *ioError) Error() string { return e.err.Error() }
 func (e *ioError) Unwrap() error { return e.err }
+
+// dataError marks bad input data (exit code 3) that has no type of its
+// own, such as count shards that do not go together.
+type dataError struct{ err error }
+
+func (e *dataError) Error() string { return e.err.Error() }
+func (e *dataError) Unwrap() error { return e.err }
+
+// codeError ends a command with an exit code whose reason has been
+// reported already (demo's steps).
+type codeError struct {
+	code int
+	err  error
+}
+
+func (e *codeError) Error() string { return e.err.Error() }
+func (e *codeError) Unwrap() error { return e.err }
 
 func runVersion(args []string, stdout, stderr io.Writer) error {
 	c := newCommand("version", "", "print version and build information")

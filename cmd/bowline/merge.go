@@ -2,6 +2,7 @@ package main
 
 import (
 	"crypto/sha256"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -45,8 +46,9 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	var cf cutoffFlags
 	var out, fmap string
 	cf.register(c)
-	c.Flags.StringVar(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
-	c.Flags.StringVar(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
+	c.InputArgs("the count shard")
+	c.OutputFlag(&out, "o", "", "spec file to write (.json, or .json.gz for gzip)")
+	c.OutputFlag(&fmap, "feature-map", "", "also write the feature map (index, feature, document count) to FILE")
 	if err := c.parse(args); err != nil {
 		return err
 	}
@@ -65,7 +67,12 @@ func runMerge(args []string, stdout, stderr io.Writer) error {
 	}
 	sh, err := learn.MergeShards(c.Args)
 	if err != nil {
-		return err
+		var she *vocab.ShardError
+		var pathErr *os.PathError
+		if errors.As(err, &she) || errors.As(err, &pathErr) {
+			return err
+		}
+		return &dataError{err} // shards counted with other settings
 	}
 	s, rep, err := sh.Learn(cut)
 	if err != nil {

@@ -255,7 +255,7 @@ func TestLifecycleUsage(t *testing.T) {
 		{[]string{"--memory-limit", "lots", "-o", x}, "not a size"},
 		{[]string{"--memory-limit", "64MiB", "--hash", "2^10", "-o", x}, "hashing"},
 		{[]string{"--counts-out", x, "--min-docs", "2"}, "--min-docs does not go with --counts-out"},
-		{[]string{"--counts-out", x, "-o", x}, "--o does not go"},
+		{[]string{"--counts-out", x, "-o", filepath.Join(dir, "y.json")}, "-o does not go"},
 		{[]string{"--counts-out", x, "--memory-limit", "64MiB"}, "exact counts"},
 		{[]string{"--counts-out", x, "--hash", "2^10"}, "hashing"},
 	} {

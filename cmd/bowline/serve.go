@@ -39,7 +39,7 @@ func runServe(args []string, stdout, stderr io.Writer) error {
 	var maxDocs int
 	t := serve.DefaultTimeouts
 	var grace time.Duration
-	c.Flags.StringVar(&specPath, "spec", "", "spec file written by bowline learn")
+	c.InputFlag(&specPath, "spec", "", "spec file written by bowline learn")
 	c.Flags.StringVar(&addr, "addr", "127.0.0.1:8080", "address to listen on; the default answers this machine only")
 	c.Flags.Int64Var(&maxBody, "max-body", serve.DefaultMaxBody, "largest request body, in bytes")
 	c.Flags.IntVar(&maxDocs, "max-docs", serve.DefaultMaxDocuments, "most documents in one request")
@@ -80,7 +80,10 @@ func runServe(args []string, stdout, stderr io.Writer) error {
 	}
 	ln, err := net.Listen("tcp", addr)
 	if err != nil {
-		return fmt.Errorf("--addr %s: %w", addr, err)
+		// The address cannot be used (in use, not this machine's, not
+		// allowed): choosing another is the fix, so it is the command
+		// line's (exit 2), as a malformed address is.
+		return cli.Usagef("--addr %s: %v", addr, err)
 	}
 	if !isLoopback(ln.Addr()) {
 		log.Warn("listening beyond this machine: anyone who can reach the address can use the encoder", "addr", ln.Addr().String())

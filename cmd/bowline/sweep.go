@@ -34,13 +34,16 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	an.RegisterTable(c.Flags)
 	rf.register(c.Flags)
 	var ef errorFlags
-	ef.register(c.Flags)
-	c.Flags.StringVar(&holdout, "holdout", "", "held-out corpus (same format and fields) for accuracy figures")
+	ef.register(c)
+	c.InputArgs("the training corpus")
+	c.Inputs("--stop", an.StopFiles)
+	c.InputFlag(&holdout, "holdout", "", "held-out corpus (same format and fields) for accuracy figures")
 	c.Flags.StringVar(&widths, "widths", "2^10..2^24", "hashing widths: range A..B (step ×2) or list A,B,C")
 	c.Flags.Float64Var(&cval, "c", 1, "regularization C of the logistic regression (as liblinear's -c)")
 	c.Flags.IntVar(&explainN, "explain-buckets", 0, "list the keys of the N most crowded buckets")
 	c.Flags.StringVar(&explainWidth, "explain-width", "", "width for --explain-buckets (default: the widest)")
-	c.Flags.StringVar(&report, "report", "", "also write the sweep to FILE.json or FILE.html")
+	c.OutputFlag(&report, "report", "", "also write the sweep to FILE.json or FILE.html")
+	c.Outputs("the figures", stdoutPath)
 	if err := c.parse(args); err != nil {
 		return err
 	}

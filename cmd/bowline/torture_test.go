@@ -71,10 +71,7 @@ func TestTorture(t *testing.T) {
 				t.Fatalf("%s: rejects %q are not the records as read", c.Name, b)
 			}
 		default:
-			wantCode := exitData
-			if want.Outcome == torture.FailsIO {
-				wantCode = exitIO
-			}
+			wantCode := exitData // Fails and FailsWhole alike
 			if code != wantCode {
 				t.Fatalf("%s: exit %d, want %d\n%s", c.Name, code, wantCode, stderr)
 			}

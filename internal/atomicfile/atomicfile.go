@@ -1,13 +1,26 @@
 // Package atomicfile writes a file under a temporary name in its target
 // folder and renames it into place only when it is complete.
+//
+// The temporary name of an output NAME is
+//
+//	.NAME.tmp-bowline-PID-HOST-RANDOM
+//
+// where PID is the writer's process id, HOST eight hex digits naming the
+// machine (a hash of its host name) and RANDOM a decimal number. A process
+// killed outright (SIGKILL, a power cut) cannot remove its temporary file;
+// the next Create of the same output on the same machine removes every
+// such leftover whose process is gone, and no other file.
 package atomicfile
 
 import (
 	"errors"
 	"fmt"
+	"hash/fnv"
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
+	"strings"
 	"sync"
 )
 
@@ -60,7 +73,9 @@ func Create(path string) (*File, error) {
 			return &File{Path: path, f: f, direct: true}, nil
 		}
 	}
-	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
+	prefix := tempPrefix(base)
+	removeStale(dir, prefix)
+	f, err := os.CreateTemp(dir, prefix+strconv.Itoa(os.Getpid())+"-"+hostTag()+"-*")
 	if err != nil {
 		return nil, fmt.Errorf("cannot write %s: %w", path, unwrapPath(err))
 	}
@@ -69,6 +84,90 @@ func Create(path string) (*File, error) {
 	open[a] = struct{}{}
 	mu.Unlock()
 	return a, nil
+}
+
+// maxTempBase is the longest part of an output's name kept in its
+// temporary name, so that the temporary name stays within the 255 bytes
+// file systems allow when the output's own name does.
+const maxTempBase = 200
+
+// tempPrefix returns the start of the temporary names of the output base:
+// ".BASE.tmp-bowline-", BASE cut to maxTempBase bytes.
+func tempPrefix(base string) string {
+	if len(base) > maxTempBase {
+		base = base[:maxTempBase]
+	}
+	return "." + base + ".tmp-bowline-"
+}
+
+// hostTag names this machine in temporary names: eight hex digits of the
+// FNV-1a hash of its host name. Leftovers written by a process of another
+// machine (a shared folder) carry another tag and are never removed here,
+// where their process id means nothing.
+func hostTag() string {
+	hostOnce.Do(func() {
+		name, _ := os.Hostname()
+		h := fnv.New32a()
+		h.Write([]byte(name))
+		hostHex = fmt.Sprintf("%08x", h.Sum32())
+	})
+	return hostHex
+}
+
+var (
+	hostOnce sync.Once
+	hostHex  string
+)
+
+// stalePID returns the process id in name when name is a temporary name
+// of this machine that starts with prefix: prefix, PID, "-", the host
+// tag, "-", RANDOM, with nothing else.
+func stalePID(name, prefix string) (int, bool) {
+	rest, ok := strings.CutPrefix(name, prefix)
+	if !ok {
+		return 0, false
+	}
+	parts := strings.Split(rest, "-")
+	if len(parts) != 3 || parts[1] != hostTag() || !digits(parts[0]) || !digits(parts[2]) {
+		return 0, false
+	}
+	pid, err := strconv.Atoi(parts[0])
+	if err != nil || pid <= 0 {
+		return 0, false
+	}
+	return pid, true
+}
+
+func digits(s string) bool {
+	if s == "" {
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		if s[i] < '0' || s[i] > '9' {
+			return false
+		}
+	}
+	return true
+}
+
+// removeStale removes the temporary files in dir that start with prefix
+// and were left by a process of this machine that no longer runs. A file
+// of this process, of a live process or of a process whose state cannot
+// be told is kept, and so is anything that is not a regular file. It is
+// best effort: a failure leaves the leftover and is not reported.
+func removeStale(dir, prefix string) {
+	es, err := os.ReadDir(dir)
+	if err != nil {
+		return
+	}
+	self := os.Getpid()
+	for _, e := range es {
+		pid, ok := stalePID(e.Name(), prefix)
+		if !ok || pid == self || !e.Type().IsRegular() || !processGone(pid) {
+			continue
+		}
+		os.Remove(filepath.Join(dir, e.Name()))
+	}
 }
 
 func unwrapPath(err error) error {

@@ -143,7 +143,9 @@ func (f *AnalysisFlags) tableFields(set map[string]bool) ([]spec.TableField, err
 
 // Settings validates the flags before any work starts and returns the
 // spec settings for a corpus read as in; set holds the names of the flags
-// given. Every error is a *UsageError naming the flag.
+// given. Every error names the flag; it is a *UsageError but for a --stop
+// file that cannot be read (its chain holds the *os.PathError) or that is
+// malformed (a *stopwords.ParseError).
 func (f *AnalysisFlags) Settings(in spec.Input, set map[string]bool) (*learn.Settings, error) {
 	s := &learn.Settings{Input: in, KeepNegations: !f.DropNegations}
 	var err error
@@ -172,7 +174,11 @@ func (f *AnalysisFlags) Settings(in spec.Input, set map[string]bool) (*learn.Set
 		}
 		words, err := stopSource(src)
 		if err != nil {
-			return nil, wrap("stop", err)
+			var u *UsageError
+			if errors.As(err, &u) {
+				return nil, wrap("stop", err)
+			}
+			return nil, &flagError{"--stop: " + err.Error(), err}
 		}
 		s.StopSources = append(s.StopSources, src)
 		s.StopWords = append(s.StopWords, words...)
@@ -251,23 +257,51 @@ func (f *AnalysisFlags) Settings(in spec.Input, set map[string]bool) (*learn.Set
 	return s, nil
 }
 
-// stopSource reads a --stop argument: a built-in language code or a file.
-func stopSource(src string) ([]string, error) {
+// StopFiles returns the --stop sources that name files: neither none nor
+// a built-in list. Commands declare them as inputs (see CheckFiles).
+func (f *AnalysisFlags) StopFiles() []string {
+	var out []string
+	for _, src := range f.Stop {
+		if src != "none" && !builtinStop(src) {
+			out = append(out, src)
+		}
+	}
+	return out
+}
+
+func builtinStop(src string) bool {
 	for _, l := range stopwords.Languages() {
 		if l == src {
-			return stopwords.Builtin(src)
+			return true
 		}
+	}
+	return false
+}
+
+// stopSource reads a --stop argument: a built-in language code or a file.
+func stopSource(src string) ([]string, error) {
+	if builtinStop(src) {
+		return stopwords.Builtin(src)
 	}
 	f, err := os.Open(src)
 	if err != nil {
 		if os.IsNotExist(err) && !strings.ContainsAny(src, "./") {
-			return nil, fmt.Errorf("%q is neither a built-in stop list (%s) nor a file", src, strings.Join(stopwords.Languages(), " "))
+			return nil, Usagef("%q is neither a built-in stop list (%s) nor a file", src, strings.Join(stopwords.Languages(), " "))
 		}
-		return nil, fmt.Errorf("cannot read stop list %s: %v", src, unwrapPath(err))
+		return nil, &flagError{fmt.Sprintf("cannot read stop list %s: %v", src, unwrapPath(err)), err}
 	}
 	defer f.Close()
 	return stopwords.ReadList(f, src)
 }
+
+// flagError is an error with the message given, whose chain is err's.
+type flagError struct {
+	msg string
+	err error
+}
+
+func (e *flagError) Error() string { return e.msg }
+func (e *flagError) Unwrap() error { return e.err }
 
 func unwrapPath(err error) error {
 	var pe *os.PathError

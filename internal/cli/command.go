@@ -56,6 +56,8 @@ type Command struct {
 	Flags    *flag.FlagSet   // the command's flags; errors are not printed
 	Args     []string        // positional arguments, in order
 	Given    map[string]bool // names of the flags given
+
+	files []fileArg // the files its flags and arguments name (files.go)
 }
 
 // NewCommand returns a command with an empty flag set that returns its

@@ -4,9 +4,11 @@ import (
 	"errors"
 	"flag"
 	"reflect"
+	"strings"
 	"testing"
 
 	"github.com/bowline/bowline/corpus"
+	"github.com/bowline/bowline/spec"
 )
 
 func TestParseFlagsAnywhere(t *testing.T) {
@@ -64,5 +66,36 @@ func TestSettingsRefusesMixedModes(t *testing.T) {
 	want := "--min-docs is a vocabulary setting; it does not apply with --hash"
 	if err == nil || err.Error() != want {
 		t.Errorf("--hash with --min-docs: %v, want %q", err, want)
+	}
+}
+
+// TestTextIsNotLabelOrID: a text field that is also the label or the id
+// is refused with a usage error naming both, whether the names come from
+// flags, from a spec or from the default text field.
+func TestTextIsNotLabelOrID(t *testing.T) {
+	sp := &spec.Input{Format: "tsv", Text: []string{"body"}, Label: "team"}
+	cases := []struct {
+		flags InputFlags
+		def   *spec.Input
+		given map[string]bool
+		want  string // "" for accepted
+	}{
+		{InputFlags{Text: ListFlag{"team"}, Label: "team"}, nil, map[string]bool{"label": true}, "--text team and --label team name the same field"},
+		{InputFlags{Text: ListFlag{"body", "id"}, ID: "id"}, nil, map[string]bool{"id": true}, "--text id and --id id name the same field"},
+		{InputFlags{Label: "text"}, nil, map[string]bool{"label": true}, `the text field "text" (the default of --text) and --label text`},
+		{InputFlags{Label: "body"}, sp, map[string]bool{"label": true}, `the spec's text field "body" and --label body`},
+		{InputFlags{Text: ListFlag{"team"}}, sp, nil, `--text team and the spec's label field "team"`},
+		{InputFlags{Text: ListFlag{"body"}, Label: "team", ID: "id"}, nil, map[string]bool{"label": true, "id": true}, ""},
+		{InputFlags{}, sp, nil, ""},
+	}
+	for _, tc := range cases {
+		_, err := tc.flags.OptionsFor(corpus.TSV, tc.def, tc.given)
+		var u *UsageError
+		switch {
+		case tc.want == "" && err != nil:
+			t.Errorf("%+v: %v, want it accepted", tc.flags, err)
+		case tc.want != "" && (!errors.As(err, &u) || !strings.Contains(err.Error(), tc.want)):
+			t.Errorf("%+v: %v, want a usage error with %q", tc.flags, err, tc.want)
+		}
 	}
 }

@@ -2,6 +2,7 @@ package cli
 
 import (
 	"flag"
+	"fmt"
 
 	"github.com/bowline/bowline/corpus"
 	"github.com/bowline/bowline/spec"
@@ -92,7 +93,38 @@ func (f *InputFlags) OptionsFor(format corpus.Format, def *spec.Input, given map
 	if len(o.Text) == 0 || (def != nil && def.Format == "lines" && len(f.Text) == 0) {
 		o.Text = []string{"text"}
 	}
-	return o, nil
+	return o, f.checkDistinct(o, def, given)
+}
+
+// checkDistinct refuses a text field that is also the label or the id
+// field: its text would be features and the row's label (or id) at once.
+// Fields are compared as written (a name and the column number of the
+// same column are not told apart here). The message names the flags, or
+// says where a value not given on the command line comes from.
+func (f *InputFlags) checkDistinct(o corpus.Options, def *spec.Input, given map[string]bool) error {
+	text := func(t string) string {
+		switch {
+		case len(f.Text) > 0:
+			return "--text " + t
+		case def != nil && def.Format != "lines":
+			return fmt.Sprintf("the spec's text field %q", t)
+		}
+		return fmt.Sprintf("the text field %q (the default of --text)", t)
+	}
+	other := func(flag, v string) string {
+		if given[flag] || def == nil {
+			return "--" + flag + " " + v
+		}
+		return fmt.Sprintf("the spec's %s field %q", flag, v)
+	}
+	for _, t := range o.Text {
+		for _, x := range []struct{ flag, v string }{{"label", o.Label}, {"id", o.ID}} {
+			if x.v != "" && x.v == t {
+				return Usagef("%s and %s name the same field: a field is either text or the %s; give --text the field that holds the text", text(t), other(x.flag, x.v), x.flag)
+			}
+		}
+	}
+	return nil
 }
 
 // SpecInput records the corpus options in a spec; a lines corpus has one

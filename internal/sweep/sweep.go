@@ -225,7 +225,7 @@ func Run(train *corpus.Reader, trainName string, holdout *corpus.Reader, holdout
 		return nil, err
 	}
 	if tr.len() == 0 {
-		return nil, fmt.Errorf("%s: no records to learn from", trainName)
+		return nil, fmt.Errorf("%s: %w", trainName, pipeline.ErrNoRecords)
 	}
 	t.train = len(t.keys)
 	var te *docSet

@@ -20,9 +20,10 @@ const (
 	// Column when not 0); with --on-error skip, Rejects records are skipped
 	// and Rows rows come out.
 	Fails
-	// FailsIO means the file itself is broken (a truncated archive): the
-	// run stops and skipping cannot help.
-	FailsIO
+	// FailsWhole means the file is damaged beyond one record (a truncated
+	// or corrupt archive): the run stops with a bad-data error (exit 3)
+	// and skipping cannot help.
+	FailsWhole
 )
 
 // Case is one file of the torture corpus.
@@ -94,7 +95,7 @@ func Cases(big bool) []Case {
 			Data: []byte("{\"team\":\"bikes\",\"text\":\"flat\"}\n{\"team\":\"app\"}\n"), Args: jsonl,
 			Outcome: Fails, Rows: 1, Rejects: 1, Line: 2},
 		{Name: "truncated.tsv.gz", About: "a gzip archive cut short",
-			Data: truncatedGzip(), Args: tsv, Outcome: FailsIO},
+			Data: truncatedGzip(), Args: tsv, Outcome: FailsWhole},
 	}
 	if big {
 		cs = append(cs, Case{Name: "big-line.txt", About: "one 64 MiB document on a single line",
